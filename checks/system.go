@@ -1,0 +1,107 @@
+package checks
+
+import (
+	"fmt"
+	"math"
+	"slices"
+
+	"github.com/ampwright/ampwright/result"
+	"github.com/ampwright/ampwright/schema"
+)
+
+// bankVoltageTolerance is how far a bank's nominal voltage may sit from
+// the system voltage: chemistries differ in nominal cell voltage (a
+// four-cell LiFePO4 battery is 12.8 V on a 12 V system). Common practice.
+const bankVoltageTolerance = 0.10
+
+// BankVoltage checks that the bank's arrangement gives the system voltage.
+var BankVoltage = &Check{
+	ID:    "bank.voltage",
+	Title: "bank nominal voltage matches the system voltage",
+	Doc: `Checks that the batteries in series give the boat's nominal system voltage.
+
+Method: the bank's nominal voltage is the number of batteries in series
+times one battery's nominal voltage.
+
+    V_bank = N_series × V_battery
+
+Limit: V_bank within 10 % of the system voltage (12, 24 or 48 V). The
+tolerance admits the nominal voltages of the chemistries (12.8 V for a
+four-cell LiFePO4 battery on a 12 V system); it is common practice, not a
+published rule. A bank outside it is wired for another system voltage.`,
+	Run: func(in *Input) []result.Finding {
+		d := in.Design
+		sys := d.Vessel.SystemVolts()
+		vb := float64(d.Bank.Series) * d.Bank.Battery.Voltage.Volts()
+		dev := math.Abs(vb-sys) / sys * 100
+		f := result.Finding{
+			Subject:  "bank",
+			Value:    round(vb, 3),
+			Limit:    sys,
+			Unit:     "V",
+			Margin:   round(bankVoltageTolerance*100-dev, 3),
+			Source:   "common practice (tolerance for nominal cell voltages)",
+			Position: in.Position("bank"),
+			Message: fmt.Sprintf("%d × %s = %s nominal on a %s system (%.1f %% off)",
+				d.Bank.Series, d.Bank.Battery.Voltage.Text, volts(vb), d.Vessel.System, dev),
+			Status: result.Pass,
+		}
+		if dev > bankVoltageTolerance*100 {
+			f.Status = result.Fail
+			if n := int(math.Round(sys / d.Bank.Battery.Voltage.Volts())); n >= 1 {
+				f.Change = fmt.Sprintf("put %d batteries in series (%s), or choose a battery for the %s system", n, volts(float64(n)*d.Bank.Battery.Voltage.Volts()), d.Vessel.System)
+			}
+		}
+		return []result.Finding{f}
+	},
+}
+
+// ControllerSystem checks that each charge controller and inverter is made
+// for the system voltage.
+var ControllerSystem = &Check{
+	ID:    "controller.system",
+	Title: "controllers and inverters are rated for the system voltage",
+	Doc: `Checks that every charge controller and inverter lists the boat's
+nominal system voltage among the battery voltages it is made for.
+
+Method: the part's "systems" list in the catalog must contain the system
+voltage. A part whose catalog entry lists no systems is reported as a
+warning: its datasheet must be checked by hand.
+
+Source: the maker's data for the part, as entered in the yard catalog.`,
+	Run: func(in *Input) []result.Finding {
+		d := in.Design
+		var out []result.Finding
+		check := func(path, subject string, part schema.Part, systems []string) {
+			f := result.Finding{
+				Subject:  subject,
+				Limit:    d.Vessel.SystemVolts(),
+				Value:    d.Vessel.SystemVolts(),
+				Unit:     "V",
+				Source:   "catalog data for " + part.ID,
+				Position: in.Position(path),
+				Status:   result.Pass,
+				Message:  fmt.Sprintf("%s is made for %v", part.ID, systems),
+			}
+			switch {
+			case len(systems) == 0:
+				f.Status = result.Warn
+				f.Message = fmt.Sprintf("the catalog lists no system voltages for %s; check its datasheet for %s", part.ID, d.Vessel.System)
+			case !slices.Contains(systems, d.Vessel.System):
+				f.Status = result.Fail
+				f.Message = fmt.Sprintf("%s is made for %v, not %s", part.ID, systems, d.Vessel.System)
+				f.Change = fmt.Sprintf("choose a part made for %s", d.Vessel.System)
+			}
+			out = append(out, f)
+		}
+		for _, name := range schema.Names(d.Controllers) {
+			c := d.Controllers[name]
+			check(`controllers.`+quotePath(name), name, c.Part.Part, c.Part.Systems)
+		}
+		for _, name := range schema.Names(d.Inverters) {
+			inv := d.Inverters[name]
+			check(`inverters.`+quotePath(name), name, inv.Part.Part, inv.Part.Systems)
+		}
+		return out
+	},
+}

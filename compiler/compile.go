@@ -1,0 +1,130 @@
+// Package compiler turns a hull's CUE design into checked results.
+//
+// The phases, each over one state:
+//
+//	load      cue/load reads the hull's package and its imports from the
+//	          yard's module, with a registry that refuses, so nothing is
+//	          fetched and nothing outside the module is read;
+//	unify     the design is unified with the embedded #Design;
+//	validate  every field is visited: quantities are parsed against their
+//	          dimension and limits, CUE errors are reworded, references
+//	          between parts of the design are resolved; all errors are
+//	          collected, positioned and sorted;
+//	decode    the valid design decodes into schema.Design, SI units;
+//	rules     the design's rulebook tables replace the default's;
+//	summarise the result names the design and what it declares.
+//
+// Load returns a Design or an ErrorList; Compile returns a result.Result.
+package compiler
+
+import (
+	"fmt"
+	"os"
+	"path/filepath"
+
+	"cuelang.org/go/cue"
+	"cuelang.org/go/cue/cuecontext"
+	"cuelang.org/go/cue/token"
+
+	"github.com/ampwright/ampwright/schema"
+)
+
+// Design is a loaded, validated and decoded hull design.
+type Design struct {
+	// Dir is the design directory as given.
+	Dir string
+	// Root is the module root, or Dir when the design is in no module.
+	Root string
+	// Files are the input files, the imports' included, sorted.
+	Files []string
+	// Hash is the SHA-256 of the schema and every input file.
+	Hash string
+	// Spec is the decoded design.
+	Spec *schema.Design
+	// Rules is the rulebook in force: the default, with the design's
+	// tables over it.
+	Rules schema.Rulebook
+	// pos holds the design's position of every named entry, by CUE path.
+	pos map[string]token.Pos
+}
+
+// Position returns the design's file:line:col for a CUE path such as
+// wiring."bank-main", or "" when it has none.
+func (d *Design) Position(path string) string {
+	return posString(d.pos[path])
+}
+
+// Load reads, validates and decodes the hull design in dir. Input errors
+// are returned as an ErrorList.
+func Load(dir string) (*Design, error) {
+	ctx := cuecontext.New()
+	inst, files, err := loadInstance(dir)
+	if err != nil {
+		if inst == nil {
+			return nil, ErrorList{{Msg: err.Error()}}
+		}
+		return nil, loadErrors(err)
+	}
+	abs, _ := filepath.Abs(dir)
+	root := moduleRoot(abs)
+	if root == "" {
+		root = abs
+	}
+	hash, err := inputsHash(root, files, os.ReadFile)
+	if err != nil {
+		return nil, ErrorList{{Msg: err.Error()}}
+	}
+
+	data := ctx.BuildInstance(inst)
+	if err := data.Err(); err != nil && !data.Exists() {
+		return nil, loadErrors(err)
+	}
+	sch, err := schema.Build(ctx)
+	if err != nil {
+		return nil, fmt.Errorf("internal error: the embedded schema does not compile: %v", err)
+	}
+	// Data first, so that error paths name the design, not #Design.
+	unified := data.Unify(sch.LookupPath(schema.DesignPath))
+
+	v := &validator{root: unified, data: data, home: inst.Dir, refs: &refResolver{ctx: ctx, inst: inst, data: data}}
+	v.run()
+	v.crossCheck()
+	if err := v.errs.Err(); err != nil {
+		return nil, err
+	}
+
+	var spec schema.Design
+	if err := unified.Decode(&spec); err != nil {
+		return nil, loadErrors(err)
+	}
+	var rules schema.Rulebook
+	if err := sch.LookupPath(schema.DefaultPath).Decode(&rules); err != nil {
+		return nil, fmt.Errorf("internal error: the default rulebook does not decode: %v", err)
+	}
+	d := &Design{
+		Dir:   dir,
+		Root:  root,
+		Files: files,
+		Hash:  hash,
+		Spec:  &spec,
+		Rules: rules.Over(spec.Rules),
+		pos:   entryPositions(&validator{root: unified, data: data, home: inst.Dir}),
+	}
+	return d, nil
+}
+
+// entryPositions records where the design declares each named entry.
+func entryPositions(c *validator) map[string]token.Pos {
+	out := map[string]token.Pos{}
+	for _, group := range []string{"scenarios", "loads", "inverters", "arrays", "controllers", "buses", "wiring"} {
+		for _, name := range c.keys(group) {
+			p := cue.MakePath(cue.Str(group), cue.Str(name))
+			out[p.String()] = c.dataPos(p)
+		}
+	}
+	for _, top := range []string{"vessel", "site", "bank", "voyage", "autonomy"} {
+		p := cue.MakePath(cue.Str(top))
+		out[p.String()] = c.dataPos(p)
+	}
+	return out
+}

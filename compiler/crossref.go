@@ -1,0 +1,181 @@
+package compiler
+
+import (
+	"fmt"
+	"sort"
+	"strings"
+
+	"cuelang.org/go/cue"
+)
+
+// crossCheck finds what the schema cannot say: names that refer to other
+// parts of the design, names used twice, and fields that go together.
+// It reads the unified value, so that it runs alongside the schema's own
+// errors and every problem of a design is reported in one run.
+func (c *validator) crossCheck() {
+	scenarios := c.keys("scenarios")
+	wiring := c.keys("wiring")
+	inverters := c.keys("inverters")
+	controllers := c.keys("controllers")
+	loads := c.keys("loads")
+
+	for _, name := range loads {
+		base := cue.MakePath(cue.Str("loads"), cue.Str(name))
+		c.ref(base, "circuit", "a conductor in wiring", wiring)
+		c.ref(base, "inverter", "an inverter in inverters", inverters)
+		for _, s := range c.keysAt(appendPath(base, "hours")) {
+			if !contains(scenarios, s) {
+				p := appendPath(base, "hours", s)
+				c.errs.Add(c.dataPos(p), p.String(), "unknown scenario %q%s", s, suggest(s, scenarios))
+			}
+		}
+		cur := c.root.LookupPath(appendPath(base, "current")).Exists()
+		pow := c.root.LookupPath(appendPath(base, "power")).Exists()
+		switch {
+		case cur && pow:
+			c.errs.Add(c.dataPos(base), base.String(), "give the load's current or its power, not both")
+		case !cur && !pow && c.root.LookupPath(base).Exists():
+			c.errs.Add(c.dataPos(base), base.String(), "missing the load's draw: give current, such as \"4.5 A\", or power, such as \"60 W\"")
+		}
+	}
+	for _, name := range inverters {
+		c.ref(cue.MakePath(cue.Str("inverters"), cue.Str(name)), "circuit", "a conductor in wiring", wiring)
+	}
+	for _, name := range c.keys("arrays") {
+		c.ref(cue.MakePath(cue.Str("arrays"), cue.Str(name)), "controller", "a controller in controllers", controllers)
+	}
+	if legs := c.root.LookupPath(cue.ParsePath("voyage.legs")); legs.Exists() {
+		if it, err := legs.List(); err == nil {
+			for it.Next() {
+				c.ref(it.Value().Path(), "scenario", "a scenario in scenarios", scenarios)
+			}
+		}
+	}
+	c.ref(cue.ParsePath("autonomy"), "scenario", "a scenario in scenarios", scenarios)
+	c.months()
+
+	// Nodes of the wiring: the bank and every named thing a conductor can
+	// end at. A name used in two places would make a conductor ambiguous.
+	nodes := []string{"bank"}
+	owner := map[string]string{"bank": "bank"}
+	for _, group := range []string{"buses", "arrays", "controllers", "inverters", "loads"} {
+		for _, n := range c.keys(group) {
+			if first, dup := owner[n]; dup {
+				p := cue.MakePath(cue.Str(group), cue.Str(n))
+				c.errs.Add(c.dataPos(p), p.String(), "duplicate name %q: %s already has it, and a conductor's from and to must name one node", n, first)
+				continue
+			}
+			owner[n] = group
+			nodes = append(nodes, n)
+		}
+	}
+	for _, name := range wiring {
+		base := cue.MakePath(cue.Str("wiring"), cue.Str(name))
+		c.ref(base, "from", "a node (bank, a bus, array, controller, inverter or load)", nodes)
+		c.ref(base, "to", "a node (bank, a bus, array, controller, inverter or load)", nodes)
+		from, _ := c.root.LookupPath(appendPath(base, "from")).String()
+		to, _ := c.root.LookupPath(appendPath(base, "to")).String()
+		if from != "" && from == to {
+			c.errs.Add(c.dataPos(appendPath(base, "to")), appendPath(base, "to").String(), "the conductor runs from %q to itself", from)
+		}
+	}
+	for _, group := range []string{"scenarios", "loads", "wiring", "buses", "arrays", "controllers", "inverters"} {
+		c.similarNames(group)
+	}
+}
+
+// months checks the months in use: no month twice, and irradiation given
+// for each.
+func (c *validator) months() {
+	months := c.root.LookupPath(cue.ParsePath("site.months"))
+	it, err := months.List()
+	if err != nil {
+		return
+	}
+	seen := map[string]bool{}
+	irr := cue.ParsePath("site.irradiation")
+	for it.Next() {
+		m, err := it.Value().String()
+		if err != nil {
+			continue
+		}
+		p := it.Value().Path()
+		if seen[m] {
+			c.errs.Add(c.dataPos(p), p.String(), "duplicate month %q", m)
+			continue
+		}
+		seen[m] = true
+		if c.root.LookupPath(irr).Exists() && !c.root.LookupPath(appendPath(irr, m)).Exists() {
+			c.errs.Add(c.dataPos(irr), irr.String(), "no irradiation for %q, a month in use; expected a value such as %s: \"5.2 kWh/m²/day\"", m, m)
+		}
+	}
+}
+
+// similarNames reports names in one group that differ only in case or
+// separators, which a reader takes for the same thing.
+func (c *validator) similarNames(group string) {
+	seen := map[string]string{}
+	for _, n := range c.keys(group) {
+		k := strings.NewReplacer("-", "", "_", "", ".", "").Replace(strings.ToLower(n))
+		if first, dup := seen[k]; dup {
+			p := cue.MakePath(cue.Str(group), cue.Str(n))
+			c.errs.Add(c.dataPos(p), p.String(), "duplicate name: %q and %q differ only in case or separators", first, n)
+			continue
+		}
+		seen[k] = n
+	}
+}
+
+// ref checks that the string field of base names one of names.
+func (c *validator) ref(base cue.Path, field, what string, names []string) {
+	p := appendPath(base, field)
+	v := c.root.LookupPath(p)
+	if !v.Exists() {
+		return
+	}
+	s, err := v.String()
+	if err != nil || contains(names, s) {
+		return
+	}
+	c.errs = append(c.errs, &Error{
+		Pos:  c.dataPos(p),
+		Path: p.String(),
+		Msg:  fmt.Sprintf("unknown %s %q: expected %s%s", field, s, what, suggest(s, names)),
+	})
+}
+
+// keys returns the sorted field names of the top-level struct name.
+func (c *validator) keys(name string) []string {
+	return c.keysAt(cue.MakePath(cue.Str(name)))
+}
+
+func (c *validator) keysAt(p cue.Path) []string {
+	v := c.root.LookupPath(p)
+	if !v.Exists() {
+		return nil
+	}
+	it, err := v.Fields()
+	if err != nil {
+		return nil
+	}
+	var out []string
+	for it.Next() {
+		out = append(out, it.Selector().Unquoted())
+	}
+	sort.Strings(out)
+	return out
+}
+
+func appendPath(p cue.Path, names ...string) cue.Path {
+	return cue.MakePath(append(p.Selectors(), strSelectors(names)...)...)
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}
+

@@ -1,0 +1,160 @@
+package compiler
+
+import (
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"fmt"
+	"os"
+	"path/filepath"
+	"sort"
+
+	"cuelang.org/go/cue/build"
+	"cuelang.org/go/cue/errors"
+	"cuelang.org/go/cue/load"
+	"cuelang.org/go/cue/token"
+	"cuelang.org/go/mod/modfile"
+	"cuelang.org/go/mod/module"
+
+	"github.com/ampwright/ampwright/schema"
+)
+
+// refusingRegistry is the module registry ampwright gives cue/load: it
+// never reaches the network, and says which module a design asked for.
+type refusingRegistry struct{}
+
+func (refusingRegistry) refuse(what string) error {
+	return fmt.Errorf("the design asks for module %s; ampwright never downloads modules: vendor it under cue.mod/pkg or remove it from cue.mod/module.cue", what)
+}
+
+func (r refusingRegistry) ModFile(_ context.Context, mv module.Version) (*modfile.File, error) {
+	return nil, r.refuse(mv.String())
+}
+
+func (r refusingRegistry) Fetch(_ context.Context, mv module.Version) (module.SourceLoc, error) {
+	return module.SourceLoc{}, r.refuse(mv.String())
+}
+
+func (r refusingRegistry) ModuleVersions(_ context.Context, mpath string) ([]string, error) {
+	return nil, r.refuse(mpath)
+}
+
+// moduleRoot returns the directory holding cue.mod above or at dir, or ""
+// when dir lies in no CUE module.
+func moduleRoot(dir string) string {
+	for d := dir; ; {
+		if fi, err := os.Stat(filepath.Join(d, "cue.mod")); err == nil && fi.IsDir() {
+			return d
+		}
+		parent := filepath.Dir(d)
+		if parent == d {
+			return ""
+		}
+		d = parent
+	}
+}
+
+// loadInstance loads the CUE package in dir. The instance's own files,
+// and those of every package it imports, are returned sorted.
+func loadInstance(dir string) (*build.Instance, []string, error) {
+	abs, err := filepath.Abs(dir)
+	if err != nil {
+		return nil, nil, err
+	}
+	fi, err := os.Stat(abs)
+	if err != nil {
+		return nil, nil, fmt.Errorf("design %s: %w", dir, unwrapPathError(err))
+	}
+	if !fi.IsDir() {
+		return nil, nil, fmt.Errorf("design %s: not a directory; give the directory of a hull's package", dir)
+	}
+	cfg := &load.Config{Dir: abs, Registry: refusingRegistry{}}
+	arg := "."
+	if root := moduleRoot(abs); root != "" {
+		rel, err := filepath.Rel(root, abs)
+		if err != nil {
+			return nil, nil, err
+		}
+		cfg.Dir = root
+		arg = "./" + filepath.ToSlash(rel)
+	}
+	insts := load.Instances([]string{arg}, cfg)
+	if len(insts) != 1 {
+		return nil, nil, fmt.Errorf("design %s: expected one CUE package, found %d", dir, len(insts))
+	}
+	inst := insts[0]
+	if inst.Err != nil {
+		return inst, nil, inst.Err
+	}
+	if len(inst.BuildFiles) == 0 {
+		return inst, nil, fmt.Errorf("design %s: no .cue files", dir)
+	}
+	return inst, instanceFiles(inst), nil
+}
+
+func unwrapPathError(err error) error {
+	if pe, ok := err.(*os.PathError); ok {
+		return pe.Err
+	}
+	return err
+}
+
+// instanceFiles lists the files of inst and of everything it imports.
+func instanceFiles(inst *build.Instance) []string {
+	seen := map[string]bool{}
+	var walk func(*build.Instance)
+	walk = func(i *build.Instance) {
+		for _, f := range i.BuildFiles {
+			seen[f.Filename] = true
+		}
+		for _, imp := range i.Imports {
+			walk(imp)
+		}
+	}
+	walk(inst)
+	out := make([]string, 0, len(seen))
+	for f := range seen {
+		out = append(out, f)
+	}
+	sort.Strings(out)
+	return out
+}
+
+// inputsHash is the SHA-256 of the schema and every input file, each
+// preceded by its name relative to root, so that moving a checkout does
+// not change it and renaming a file does.
+func inputsHash(root string, files []string, read func(string) ([]byte, error)) (string, error) {
+	h := sha256.New()
+	names, contents := schema.Files()
+	for _, n := range names {
+		fmt.Fprintf(h, "%s%s\x00%d\x00", schema.FilePrefix, n, len(contents[n]))
+		h.Write(contents[n])
+	}
+	for _, f := range files {
+		b, err := read(f)
+		if err != nil {
+			return "", err
+		}
+		rel, err := filepath.Rel(root, f)
+		if err != nil {
+			rel = f
+		}
+		fmt.Fprintf(h, "%s\x00%d\x00", filepath.ToSlash(rel), len(b))
+		h.Write(b)
+	}
+	return hex.EncodeToString(h.Sum(nil)), nil
+}
+
+// loadErrors turns a cue/load error into positioned errors.
+func loadErrors(err error) ErrorList {
+	var l ErrorList
+	for _, e := range errors.Errors(err) {
+		pos, rel := designPos(append([]token.Pos{e.Position()}, e.InputPositions()...))
+		format, args := e.Msg()
+		l = append(l, &Error{Pos: pos, Path: pathString(e.Path()), Msg: fmt.Sprintf(format, args...), Related: rel})
+	}
+	if len(l) == 0 {
+		l = append(l, &Error{Msg: err.Error()})
+	}
+	return l
+}

@@ -1,0 +1,138 @@
+package compiler
+
+import (
+	"github.com/ampwright/ampwright/checks"
+	"github.com/ampwright/ampwright/result"
+	"github.com/ampwright/ampwright/schema"
+)
+
+// Compile loads the design in dir and runs every check over it. Input
+// errors come back as an ErrorList, with no result.
+func Compile(dir string) (*result.Result, *Design, error) {
+	d, err := Load(dir)
+	if err != nil {
+		return nil, nil, err
+	}
+	r := d.Result()
+	in := &checks.Input{Design: d.Spec, Rules: d.Rules, Position: d.Position}
+	r.Checks = checks.Run(checks.All, in)
+	return r, d, nil
+}
+
+// Result returns the result skeleton of d: identity, rulebook, summary
+// and the figures that describe what it declares.
+func (d *Design) Result() *result.Result {
+	s := d.Spec
+	r := &result.Result{
+		Version: result.Version,
+		Design: result.Identity{
+			Name:       s.Vessel.Name,
+			Hull:       s.Vessel.Hull,
+			Kind:       s.Vessel.Kind,
+			System:     s.Vessel.System,
+			Path:       d.Dir,
+			InputsHash: d.Hash,
+			Units:      s.Vessel.Units,
+		},
+		Rulebook: result.Rulebook{Name: d.Rules.Name, Edition: d.Rules.Edition},
+		Figures:  []result.Figure{},
+		Checks:   []result.Finding{},
+	}
+	for _, name := range schema.Names(s.Loads) {
+		l := s.Loads[name]
+		draw := ""
+		switch {
+		case l.Current != nil:
+			draw = l.Current.Text
+		case l.Power != nil:
+			draw = l.Power.Text
+		}
+		r.Summary.Loads = append(r.Summary.Loads, result.LoadLine{
+			Name: name, Circuit: l.Circuit, Kind: l.Kind, Draw: draw, Duty: l.Duty, Inverter: l.Inverter,
+		})
+	}
+	b := s.Bank
+	r.Summary.Bank = result.BankLine{Battery: b.Battery.ID, Chemistry: b.Battery.Chemistry, Series: b.Series, Parallel: b.Parallel}
+	for _, name := range schema.Names(s.Arrays) {
+		a := s.Arrays[name]
+		kind := ""
+		if c, ok := s.Controllers[a.Controller]; ok {
+			kind = c.Part.Kind
+		}
+		r.Summary.Arrays = append(r.Summary.Arrays, result.ArrayLine{
+			Name: name, Module: a.Module.ID, Series: a.Series, Strings: a.Strings, Controller: a.Controller, ControllerKind: kind,
+		})
+	}
+	for _, name := range schema.Names(s.Wiring) {
+		c := s.Wiring[name]
+		line := result.CircuitLine{Name: name, From: c.From, To: c.To, Length: c.Length.Text, Size: c.Size.Text}
+		if c.Protection != nil {
+			line.Protection = c.Protection.ID
+		}
+		r.Summary.Circuits = append(r.Summary.Circuits, line)
+	}
+	r.Figures = append(r.Figures, bankFigures(d)...)
+	r.Figures = append(r.Figures, arrayFigures(d)...)
+	return r
+}
+
+const defined = "definition"
+
+func bankFigures(d *Design) []result.Figure {
+	b := d.Spec.Bank
+	v := b.Battery.Voltage.Volts()
+	ah := b.Battery.Capacity.Ah()
+	ns, np := float64(b.Series), float64(b.Parallel)
+	return []result.Figure{
+		{
+			ID: "bank.nominalVoltage", Subject: "bank", Value: ns * v, Unit: "V",
+			Formula: "V_bank = N_series × V_battery",
+			Inputs: []result.Input{
+				{Name: "N_series", Value: ns, From: "bank.series"},
+				{Name: "V_battery", Value: v, Unit: "V", From: "bank.battery.voltage"},
+			},
+			Source: defined,
+		},
+		{
+			ID: "bank.capacity", Subject: "bank", Value: np * ah, Unit: "Ah",
+			Formula: "C_bank = N_parallel × C_battery",
+			Inputs: []result.Input{
+				{Name: "N_parallel", Value: np, From: "bank.parallel"},
+				{Name: "C_battery", Value: ah, Unit: "Ah", From: "bank.battery.capacity"},
+			},
+			Source: defined,
+		},
+		{
+			ID: "bank.nominalEnergy", Subject: "bank", Value: ns * v * np * ah, Unit: "Wh",
+			Formula: "E_bank = N_series × V_battery × N_parallel × C_battery",
+			Inputs: []result.Input{
+				{Name: "N_series", Value: ns, From: "bank.series"},
+				{Name: "V_battery", Value: v, Unit: "V", From: "bank.battery.voltage"},
+				{Name: "N_parallel", Value: np, From: "bank.parallel"},
+				{Name: "C_battery", Value: ah, Unit: "Ah", From: "bank.battery.capacity"},
+			},
+			Source: defined,
+		},
+	}
+}
+
+func arrayFigures(d *Design) []result.Figure {
+	var out []result.Figure
+	for _, name := range schema.Names(d.Spec.Arrays) {
+		a := d.Spec.Arrays[name]
+		p := a.Module.Pmax.Watts()
+		ns, np := float64(a.Series), float64(a.Strings)
+		path := "arrays." + quoteLabel(name)
+		out = append(out, result.Figure{
+			ID: "array.stcPower", Subject: name, Value: ns * np * p, Unit: "W",
+			Formula: "P_STC = N_series × N_strings × Pmax",
+			Inputs: []result.Input{
+				{Name: "N_series", Value: ns, From: path + ".series"},
+				{Name: "N_strings", Value: np, From: path + ".strings"},
+				{Name: "Pmax", Value: p, Unit: "W", From: path + ".module.pmax"},
+			},
+			Source: "module datasheet at STC (1000 W/m², 25 °C cell temperature)",
+		})
+	}
+	return out
+}

@@ -1,0 +1,496 @@
+package compiler
+
+import (
+	"fmt"
+	"math"
+	"path/filepath"
+	"strconv"
+	"strings"
+
+	"cuelang.org/go/cue"
+	"cuelang.org/go/cue/errors"
+	"cuelang.org/go/cue/token"
+
+	"github.com/ampwright/ampwright/schema/unit"
+)
+
+// validator walks a design unified with the schema and collects every
+// error it finds, in the design's terms. cue.Value.Validate stops reporting
+// some errors once others exist, so the walk visits every field itself:
+// each quantity is parsed against the dimension and limits in its @q
+// attribute, and CUE's own errors are reworded with the value, what was
+// expected and near matches.
+type validator struct {
+	root  cue.Value // the design unified with #Design
+	data  cue.Value // the design as written
+	refs  *refResolver
+	errs  ErrorList
+	quant map[string]bool // paths of quantity fields already reported
+	home  string          // the hull's package directory
+}
+
+func (c *validator) run() {
+	c.quant = map[string]bool{}
+	c.walk(c.root)
+}
+
+func (c *validator) walk(v cue.Value) {
+	if a := v.Attribute("q"); a.Err() == nil {
+		c.quantity(v, a)
+		return
+	}
+	if own := c.ownErrors(v); len(own) > 0 {
+		c.report(v, own)
+		return
+	}
+	n := len(c.errs)
+	if it, err := v.Fields(cue.All()); err == nil {
+		for it.Next() {
+			sel := it.Selector()
+			if sel.LabelType() != cue.StringLabel {
+				continue
+			}
+			switch sel.ConstraintType() {
+			case cue.OptionalConstraint:
+				continue
+			case cue.RequiredConstraint:
+				c.missing(v, sel, it.Value())
+				continue
+			}
+			c.walk(it.Value())
+		}
+	} else if it, err := v.List(); err == nil {
+		for it.Next() {
+			c.walk(it.Value())
+		}
+	}
+	if len(c.errs) > n {
+		return
+	}
+	if err := v.Validate(cue.Concrete(true)); err != nil {
+		c.report(v, errors.Errors(err))
+	}
+}
+
+// ownErrors returns the errors of v that are about v itself rather than
+// something below it: a reference that does not resolve leaves the whole
+// struct in error, and its schema's required fields are then no news.
+func (c *validator) ownErrors(v cue.Value) []errors.Error {
+	err := v.Err()
+	if err == nil {
+		return nil
+	}
+	self := pathString(selectorStrings(v.Path()))
+	var own []errors.Error
+	for _, e := range errors.Errors(err) {
+		if pathString(e.Path()) == self {
+			own = append(own, e)
+		}
+	}
+	return own
+}
+
+// missing reports a required field that the design does not give.
+func (c *validator) missing(parent cue.Value, sel cue.Selector, field cue.Value) {
+	name := sel.Unquoted()
+	path := joinPath(pathString(selectorStrings(parent.Path())), sel)
+	msg := fmt.Sprintf("missing required field %q", name)
+	if a := field.Attribute("q"); a.Err() == nil {
+		if d, ok := unit.DimByName(firstArg(a)); ok {
+			msg += fmt.Sprintf(": expected %s %s such as %s", article(d.String()), d, d.Examples())
+		}
+	}
+	c.errs = append(c.errs, &Error{Pos: c.dataPos(parent.Path()), Path: path, Msg: msg})
+}
+
+// dataPos is the design's own position of the value at p, or of the
+// nearest enclosing value the design gives.
+func (c *validator) dataPos(p cue.Path) token.Pos {
+	sels := p.Selectors()
+	for i := len(sels); i >= 0; i-- {
+		v := c.data.LookupPath(cue.MakePath(sels[:i]...))
+		if !v.Exists() {
+			continue
+		}
+		if pos := c.ownPos(v); pos.IsValid() {
+			return pos
+		}
+	}
+	return token.NoPos
+}
+
+// ownPos is where the design writes v. A struct's own position may be that
+// of a schema it embeds, so for a struct take the first position of the
+// fields it holds, preferring the hull's own files to its imports'.
+func (c *validator) ownPos(v cue.Value) token.Pos {
+	if v.IncompleteKind() == cue.StructKind {
+		if it, err := v.Fields(); err == nil {
+			var first token.Pos
+			better := func(p token.Pos) bool {
+				if !first.IsValid() {
+					return true
+				}
+				if ph, fh := c.isHome(p), c.isHome(first); ph != fh {
+					return ph
+				}
+				return comparePos(p, first) < 0
+			}
+			for it.Next() {
+				if p := c.ownPos(it.Value()); p.IsValid() && better(p) {
+					first = p
+				}
+			}
+			if first.IsValid() {
+				return first
+			}
+		}
+	}
+	if p := v.Pos(); p.IsValid() && !isSchemaPos(p) {
+		return p
+	}
+	// A value in error: the operand the design wrote.
+	if _, args := v.Expr(); len(args) > 1 {
+		for _, a := range args {
+			if p := a.Pos(); p.IsValid() && !isSchemaPos(p) {
+				return p
+			}
+		}
+	}
+	return token.NoPos
+}
+
+// isHome reports whether p lies in the hull's own package directory.
+func (c *validator) isHome(p token.Pos) bool {
+	return c.home != "" && filepath.Dir(p.Filename()) == c.home
+}
+
+// written returns the value the design writes at path, as CUE prints it.
+func (c *validator) written(path string) (string, bool) {
+	dv := c.data.LookupPath(parsePath(path))
+	if !dv.Exists() {
+		return "", false
+	}
+	if s, err := writtenString(dv); err == nil {
+		return fmt.Sprintf("%q", s), true
+	}
+	if dv.IsConcrete() && dv.Err() == nil {
+		return fmt.Sprint(dv), true
+	}
+	if _, args := dv.Expr(); len(args) > 0 {
+		for _, a := range args {
+			if a.IsConcrete() && a.Err() == nil {
+				return fmt.Sprint(a), true
+			}
+		}
+	}
+	return "", false
+}
+
+// writtenString returns the string the design writes in v, even where v is
+// in error: a design that embeds a vendored schema has its value unified
+// with the schema's pattern already, and the string is one operand.
+func writtenString(v cue.Value) (string, error) {
+	s, err := v.String()
+	if err == nil {
+		return s, nil
+	}
+	if op, args := v.Expr(); op == cue.AndOp || op == cue.NoOp {
+		for _, a := range args {
+			if a.Kind() == cue.StringKind {
+				if s, err := a.String(); err == nil {
+					return s, nil
+				}
+			}
+		}
+	}
+	return "", err
+}
+
+func unquote(s string) string {
+	if u, err := strconv.Unquote(s); err == nil {
+		return u
+	}
+	return s
+}
+
+// quantity checks a field pinned to a dimension by its @q attribute.
+func (c *validator) quantity(v cue.Value, a cue.Attribute) {
+	path := pathString(selectorStrings(v.Path()))
+	dim, ok := unit.DimByName(firstArg(a))
+	if !ok {
+		c.errs.Add(v.Pos(), path, "schema: unknown dimension %q in @q", firstArg(a))
+		return
+	}
+	dv := c.data.LookupPath(v.Path())
+	if !dv.Exists() {
+		// A default from the schema, or a required field reported by its
+		// parent.
+		return
+	}
+	pos := c.dataPos(v.Path())
+	bad := func(format string, args ...any) {
+		c.quant[path] = true
+		c.errs = append(c.errs, &Error{Pos: pos, Path: path, Msg: fmt.Sprintf(format, args...)})
+	}
+	s, err := writtenString(dv)
+	if err != nil {
+		switch k := dv.IncompleteKind(); {
+		case k == cue.BottomKind:
+			// An error in the expression itself, such as a bad reference.
+			c.report(v, errors.Errors(dv.Err()))
+		case !dv.IsConcrete():
+			bad("incomplete value; expected %s %s such as %s", article(dim.String()), dim, dim.Examples())
+		default:
+			bad("%s is %s %s, not a quantity; expected %s %s with its unit, such as %s", valueText(dv), article(kindName(k)), kindName(k), article(dim.String()), dim, dim.Examples())
+		}
+		return
+	}
+	q, err := unit.ParseAs(s, dim)
+	if err != nil {
+		bad("%s", err)
+		return
+	}
+	for i := 1; i < a.NumArgs(); i++ {
+		op, bound := a.Arg(i)
+		b, err := unit.ParseAs(bound, dim)
+		if err != nil {
+			c.errs.Add(v.Pos(), path, "schema: bad limit %s=%q in @q: %v", op, bound, err)
+			continue
+		}
+		if msg := outOfLimit(q.Value, op, b.Value); msg != "" {
+			bad("%q is out of range; it %s %s", s, msg, bound)
+			return
+		}
+	}
+	// Our parser accepted the value; CUE's pattern should have too. If it
+	// did not, say so rather than hide a disagreement.
+	if err := v.Validate(cue.Concrete(true)); err != nil {
+		c.report(v, errors.Errors(err))
+	}
+}
+
+// outOfLimit returns how value breaks the limit "op bound", or "".
+func outOfLimit(value float64, op string, bound float64) string {
+	const eps = 1e-12
+	tol := eps * math.Max(1, math.Abs(bound))
+	switch op {
+	case "gt":
+		if value <= bound+tol {
+			return "must be more than"
+		}
+	case "ge":
+		if value < bound-tol {
+			return "must be at least"
+		}
+	case "lt":
+		if value >= bound-tol {
+			return "must be less than"
+		}
+	case "le":
+		if value > bound+tol {
+			return "must be at most"
+		}
+	}
+	return ""
+}
+
+// report rewords CUE errors found at v.
+func (c *validator) report(v cue.Value, errs []errors.Error) {
+	// Errors of one disjunction share a path; reword them as one.
+	groups := map[string][]errors.Error{}
+	var order []string
+	for _, e := range errs {
+		p := pathString(e.Path())
+		if c.quant[p] {
+			continue
+		}
+		if _, ok := groups[p]; !ok {
+			order = append(order, p)
+		}
+		groups[p] = append(groups[p], e)
+	}
+	for _, p := range order {
+		c.reportGroup(p, groups[p])
+	}
+}
+
+func (c *validator) reportGroup(path string, errs []errors.Error) {
+	var positions []token.Pos
+	disjunction := false
+	var alts []errors.Error
+	for _, e := range errs {
+		positions = append(positions, e.Position())
+		positions = append(positions, e.InputPositions()...)
+		format, _ := e.Msg()
+		if strings.Contains(format, "errors in empty disjunction") {
+			disjunction = true
+			continue
+		}
+		alts = append(alts, e)
+	}
+	pos, related := designPos(positions)
+	if !pos.IsValid() {
+		pos = c.dataPos(parsePath(path))
+	}
+	add := func(msg string) {
+		c.errs = append(c.errs, &Error{Pos: pos, Path: path, Msg: msg, Related: related})
+	}
+	if disjunction && len(alts) > 1 {
+		add(c.disjunctionMessage(path, alts))
+		return
+	}
+	for _, e := range alts {
+		add(c.message(path, e))
+	}
+}
+
+// disjunctionMessage words a value that matches none of a field's
+// alternatives. Where an alternative failed on a bound or a type, that
+// failure says most; where every alternative is a literal, list them.
+func (c *validator) disjunctionMessage(path string, alts []errors.Error) string {
+	var literals []string
+	var given string
+	for _, e := range alts {
+		format, args := e.Msg()
+		if !strings.HasPrefix(format, "conflicting values %s and %s") || len(args) < 2 || strings.Contains(format, "mismatched types") {
+			return c.message(path, e)
+		}
+		a, b := fmt.Sprint(args[0]), fmt.Sprint(args[1])
+		if w, ok := c.written(path); ok {
+			given = w
+		}
+		switch {
+		case a == given:
+			literals = append(literals, b)
+		case b == given:
+			literals = append(literals, a)
+		default:
+			literals = append(literals, b)
+			if given == "" {
+				given = a
+			}
+		}
+	}
+	return fmt.Sprintf("%s is not allowed here; expected one of %s", given, strings.Join(literals, ", "))
+}
+
+// message rewords one CUE error.
+func (c *validator) message(path string, e errors.Error) string {
+	format, args := e.Msg()
+	switch {
+	case format == "field not allowed":
+		p := parsePath(path)
+		sels := p.Selectors()
+		if len(sels) == 0 {
+			break
+		}
+		name := sels[len(sels)-1].Unquoted()
+		parent := c.root.LookupPath(cue.MakePath(sels[:len(sels)-1]...))
+		fields := fieldNames(parent, name)
+		if len(fields) == 0 {
+			return fmt.Sprintf("field %q is not allowed here", name)
+		}
+		return fmt.Sprintf("field %q is not allowed here%s", name, suggest(name, fields))
+	case strings.HasPrefix(format, "undefined field: %s") && len(args) == 1:
+		return c.refs.undefined(e.Position(), unquote(fmt.Sprint(args[0])))
+	case strings.HasPrefix(format, "reference %q not found") && len(args) == 1:
+		return fmt.Sprintf("reference %q not found; is an import missing?", fmt.Sprint(args[0]))
+	case strings.HasPrefix(format, "invalid value %v (out of bound %s)") && len(args) == 2:
+		return fmt.Sprintf("%v is out of range; expected a value %s", args[0], args[1])
+	case strings.HasPrefix(format, "conflicting values %s and %s (mismatched types %s and %s)") && len(args) == 4:
+		given, want := args[1], args[2]
+		if w, ok := c.written(path); ok && w == fmt.Sprint(args[0]) {
+			given, want = args[0], args[3]
+		}
+		return fmt.Sprintf("%v is of the wrong type; expected %v", given, want)
+	case strings.HasPrefix(format, "conflicting values %s and %s") && len(args) >= 2:
+		return fmt.Sprintf("conflicting values %v and %v; a field can have only one value", args[0], args[1])
+	case strings.HasPrefix(format, "incomplete value %v"):
+		return fmt.Sprintf("no value given; expected %v", args[0])
+	case strings.HasPrefix(format, "non-concrete value %v"):
+		return fmt.Sprintf("no value given; expected %v", args[0])
+	}
+	return fmt.Sprintf(format, args...)
+}
+
+// fieldNames lists the fields v allows, for suggestions, leaving out skip.
+func fieldNames(v cue.Value, skip string) []string {
+	it, err := v.Fields(cue.All())
+	if err != nil {
+		return nil
+	}
+	var out []string
+	for it.Next() {
+		sel := it.Selector()
+		if sel.LabelType() != cue.StringLabel {
+			continue
+		}
+		if n := sel.Unquoted(); n != skip {
+			out = append(out, n)
+		}
+	}
+	return out
+}
+
+func firstArg(a cue.Attribute) string {
+	if a.NumArgs() == 0 {
+		return ""
+	}
+	k, _ := a.Arg(0)
+	return k
+}
+
+func kindName(k cue.Kind) string {
+	switch k {
+	case cue.IntKind, cue.FloatKind, cue.NumberKind:
+		return "number"
+	case cue.BoolKind:
+		return "boolean"
+	case cue.StructKind:
+		return "struct"
+	case cue.ListKind:
+		return "list"
+	}
+	return k.String()
+}
+
+func article(noun string) string {
+	if noun != "" && strings.ContainsRune("aeio", rune(noun[0])) {
+		return "an"
+	}
+	return "a"
+}
+
+// valueText prints a concrete value as CUE would write it.
+func valueText(v cue.Value) string {
+	if s, err := v.String(); err == nil {
+		return fmt.Sprintf("%q", s)
+	}
+	return fmt.Sprint(v)
+}
+
+// selectorStrings spells a path's selectors as CUE prints them.
+func selectorStrings(p cue.Path) []string {
+	sels := p.Selectors()
+	out := make([]string, len(sels))
+	for i, s := range sels {
+		out[i] = s.String()
+	}
+	return out
+}
+
+func pathString(sels []string) string { return strings.Join(sels, ".") }
+
+func joinPath(parent string, sel cue.Selector) string {
+	s := sel.Unquoted()
+	label := cue.Str(s).String()
+	if parent == "" {
+		return label
+	}
+	return parent + "." + label
+}
+
+func parsePath(s string) cue.Path { return cue.ParsePath(s) }
+
+// quoteLabel spells name as a CUE path element.
+func quoteLabel(name string) string { return cue.Str(name).String() }

@@ -1,0 +1,224 @@
+// Package result defines what ampwright reports about a design: the JSON
+// contract of `ampwright check --format json`, and the values every report
+// (text, Markdown, PDF, diff) is a view of. It uses only the standard
+// library, so that any tool can import it to read results.
+//
+// Field names are stable: a field may be added, none renamed or removed
+// without a new Version.
+package result
+
+import "sort"
+
+// Version is the version of this contract, written into every Result.
+const Version = "ampwright.result/v1"
+
+// Status is a finding's verdict.
+type Status string
+
+// The verdicts, from worst to best.
+const (
+	Fail Status = "fail"
+	Warn Status = "warn"
+	Pass Status = "pass"
+)
+
+// Rank orders statuses worst first.
+func (s Status) Rank() int {
+	switch s {
+	case Fail:
+		return 0
+	case Warn:
+		return 1
+	}
+	return 2
+}
+
+// Result is everything ampwright found about one design.
+type Result struct {
+	Version string   `json:"version"`
+	Design  Identity `json:"design"`
+	// Rulebook names the rulebook the checks used.
+	Rulebook Rulebook `json:"rulebook"`
+	// Summary describes the validated design.
+	Summary Summary `json:"summary"`
+	// Figures are the computed values, each traceable to its inputs.
+	Figures []Figure `json:"figures"`
+	// Checks are the findings of every check, worst first.
+	Checks []Finding `json:"checks"`
+	// Problems are input errors; a Result with problems has no figures.
+	Problems []Problem `json:"problems,omitempty"`
+}
+
+// Identity names the design a result is for.
+type Identity struct {
+	Name   string `json:"name"`
+	Hull   string `json:"hull"`
+	Kind   string `json:"kind,omitempty"`
+	System string `json:"system,omitempty"`
+	// Path is the design directory as given on the command line.
+	Path string `json:"path"`
+	// InputsHash is the SHA-256 of every input file, the schema included.
+	InputsHash string `json:"inputsHash"`
+	// Revision is the git commit the design was read from, if any.
+	Revision string `json:"revision,omitempty"`
+	// Dirty is true when the working tree has uncommitted changes.
+	Dirty bool `json:"dirty,omitempty"`
+	// Units is the design's preferred units: metric or imperial.
+	Units string `json:"units,omitempty"`
+}
+
+// Rulebook names the rulebook used and its edition.
+type Rulebook struct {
+	Name    string `json:"name"`
+	Edition string `json:"edition"`
+}
+
+// Summary is an overview of the validated design.
+type Summary struct {
+	Loads    []LoadLine    `json:"loads"`
+	Bank     BankLine      `json:"bank"`
+	Arrays   []ArrayLine   `json:"arrays"`
+	Circuits []CircuitLine `json:"circuits"`
+}
+
+// LoadLine is one load as declared.
+type LoadLine struct {
+	Name     string  `json:"name"`
+	Circuit  string  `json:"circuit"`
+	Kind     string  `json:"kind"`
+	Draw     string  `json:"draw"`
+	Duty     float64 `json:"duty"`
+	Inverter string  `json:"inverter,omitempty"`
+}
+
+// BankLine is the bank as declared.
+type BankLine struct {
+	Battery   string `json:"battery"`
+	Chemistry string `json:"chemistry"`
+	Series    int    `json:"series"`
+	Parallel  int    `json:"parallel"`
+}
+
+// ArrayLine is one array as declared.
+type ArrayLine struct {
+	Name           string `json:"name"`
+	Module         string `json:"module"`
+	Series         int    `json:"series"`
+	Strings        int    `json:"strings"`
+	Controller     string `json:"controller"`
+	ControllerKind string `json:"controllerKind"`
+}
+
+// CircuitLine is one conductor as declared.
+type CircuitLine struct {
+	Name       string `json:"name"`
+	From       string `json:"from"`
+	To         string `json:"to"`
+	Length     string `json:"length"`
+	Size       string `json:"size"`
+	Protection string `json:"protection,omitempty"`
+}
+
+// Figure is a computed value with what it was computed from.
+type Figure struct {
+	// ID names the quantity, stable across runs: "bank.nominalEnergy".
+	ID string `json:"id"`
+	// Subject is the design's own name for what the figure is about.
+	Subject string  `json:"subject"`
+	Value   float64 `json:"value"`
+	Unit    string  `json:"unit"`
+	// Formula is the formula in words and symbols, as on a calculation sheet.
+	Formula string  `json:"formula"`
+	Inputs  []Input `json:"inputs"`
+	Source  string  `json:"source"`
+}
+
+// Input is one input to a figure, with its value as used.
+type Input struct {
+	Name  string  `json:"name"`
+	Value float64 `json:"value"`
+	Unit  string  `json:"unit"`
+	// From says where the input came from: a CUE path or a figure ID.
+	From string `json:"from,omitempty"`
+}
+
+// Finding is one check's verdict on one subject.
+type Finding struct {
+	ID      string  `json:"id"`
+	Subject string  `json:"subject"`
+	Status  Status  `json:"status"`
+	Value   float64 `json:"value"`
+	Limit   float64 `json:"limit"`
+	Unit    string  `json:"unit"`
+	// Margin is how far the value is inside its limit, in Unit; negative
+	// when the limit is exceeded.
+	Margin  float64 `json:"margin"`
+	Message string  `json:"message"`
+	Source  string  `json:"source"`
+	// Position is the design position of the subject, file:line:col.
+	Position string `json:"position,omitempty"`
+	// Change says what to change when the finding fails.
+	Change string `json:"change,omitempty"`
+}
+
+// Problem is an input error: where, what and what was expected.
+type Problem struct {
+	// Position is file:line:col in the design, or "" when none is known.
+	Position string `json:"position"`
+	// Path is the CUE path of the offending value.
+	Path    string `json:"path"`
+	Message string `json:"message"`
+	// Related are further positions that contributed, such as the schema's.
+	Related []string `json:"related,omitempty"`
+}
+
+// Counts tallies findings by status.
+type Counts struct {
+	Fail int `json:"fail"`
+	Warn int `json:"warn"`
+	Pass int `json:"pass"`
+}
+
+// Count returns the tally of r's findings.
+func (r *Result) Count() Counts {
+	var c Counts
+	for _, f := range r.Checks {
+		switch f.Status {
+		case Fail:
+			c.Fail++
+		case Warn:
+			c.Warn++
+		default:
+			c.Pass++
+		}
+	}
+	return c
+}
+
+// Verdict is the overall status: fail if any check fails, warn if any
+// warns, pass otherwise.
+func (r *Result) Verdict() Status {
+	c := r.Count()
+	switch {
+	case c.Fail > 0:
+		return Fail
+	case c.Warn > 0:
+		return Warn
+	}
+	return Pass
+}
+
+// SortChecks orders findings worst first, then by check and subject, so
+// that results are stable.
+func (r *Result) SortChecks() {
+	sort.SliceStable(r.Checks, func(i, j int) bool {
+		a, b := r.Checks[i], r.Checks[j]
+		if a.Status.Rank() != b.Status.Rank() {
+			return a.Status.Rank() < b.Status.Rank()
+		}
+		if a.ID != b.ID {
+			return a.ID < b.ID
+		}
+		return a.Subject < b.Subject
+	})
+}

@@ -1,0 +1,163 @@
+package schema
+
+import "github.com/ampwright/ampwright/schema/unit"
+
+// Rulebook is every limit, factor and table the checks use, each table with
+// its source. Field names follow #Rulebook in cue/rulebook.cue. A nil table
+// is one the design's rulebook does not give.
+type Rulebook struct {
+	Name             string           `json:"name,omitempty"`
+	Edition          string           `json:"edition,omitempty"`
+	VoltageDrop      *VoltageDropRule `json:"voltageDrop,omitempty"`
+	Ampacity         *AmpacityRule    `json:"ampacity,omitempty"`
+	EngineSpace      *EngineSpaceRule `json:"engineSpace,omitempty"`
+	Bundling         *BundlingRule    `json:"bundling,omitempty"`
+	Protection       *ProtectionRule  `json:"protection,omitempty"`
+	MinimumSize      *MinimumSizeRule `json:"minimumSize,omitempty"`
+	PV               *PVRule          `json:"pv,omitempty"`
+	VocFactor        *VocFactorRule   `json:"vocFactor,omitempty"`
+	DepthOfDischarge *DepthRule       `json:"depthOfDischarge,omitempty"`
+	ChargeRate       *ChargeRateRule  `json:"chargeRate,omitempty"`
+	BOM              *BOMRule         `json:"bom,omitempty"`
+}
+
+// Sourced is where a rulebook table comes from.
+type Sourced struct {
+	Source string `json:"source"`
+	Status string `json:"status"`
+	Note   string `json:"note,omitempty"`
+}
+
+// Caveat returns the warning shown with a value that was not read in a
+// published text, or "" for a published one.
+func (s Sourced) Caveat() string {
+	if s.Status == "published" || s.Status == "" {
+		return ""
+	}
+	return s.Status + "; verify against the edition you work to"
+}
+
+// VoltageDropRule holds the voltage-drop limits in percent.
+type VoltageDropRule struct {
+	Sourced
+	Critical float64 `json:"critical"`
+	Other    float64 `json:"other"`
+}
+
+// AmpacityRule is allowable amperes by size, then insulation rating, both
+// written as quantities ("10 AWG", "105 °C").
+type AmpacityRule struct {
+	Sourced
+	Table map[string]map[string]float64 `json:"table"`
+}
+
+// EngineSpaceRule is the engine-space ampacity factor by insulation rating.
+type EngineSpaceRule struct {
+	Sourced
+	Factor map[string]float64 `json:"factor"`
+}
+
+// BundlingRule is the ampacity factor by bundle count.
+type BundlingRule struct {
+	Sourced
+	Steps      []BundleStep `json:"steps"`
+	MinVoltage float64      `json:"minVoltage"`
+}
+
+// BundleStep applies Factor from From conductors up.
+type BundleStep struct {
+	From   int     `json:"from"`
+	Factor float64 `json:"factor"`
+}
+
+// ProtectionRule holds the overcurrent device rules.
+type ProtectionRule struct {
+	Sourced
+	Ratio          float64     `json:"ratio"`
+	Within         unit.Length `json:"within"`
+	WithinSheathed unit.Length `json:"withinSheathed"`
+	WithinBattery  unit.Length `json:"withinBattery"`
+}
+
+// MinimumSizeRule is the smallest conductor allowed.
+type MinimumSizeRule struct {
+	Sourced
+	General  unit.Size `json:"general"`
+	Sheathed unit.Size `json:"sheathed"`
+}
+
+// PVRule holds the factors on module short-circuit current.
+type PVRule struct {
+	Sourced
+	InputFactor     float64 `json:"inputFactor"`
+	ConductorFactor float64 `json:"conductorFactor"`
+	FuseMin         float64 `json:"fuseMin"`
+	FuseMax         float64 `json:"fuseMax"`
+}
+
+// VocFactorRule is the low-temperature Voc factor table.
+type VocFactorRule struct {
+	Sourced
+	Rows []VocRow `json:"rows"`
+}
+
+// VocRow applies Factor from the temperature From down to the next row.
+type VocRow struct {
+	From   unit.Temperature `json:"from"`
+	Factor float64          `json:"factor"`
+}
+
+// DepthRule is the usable depth of discharge by chemistry.
+type DepthRule struct {
+	Sourced
+	Flooded float64 `json:"flooded"`
+	AGM     float64 `json:"agm"`
+	Gel     float64 `json:"gel"`
+	LiFePO4 float64 `json:"lifepo4"`
+}
+
+// ChargeRateRule bounds lead-acid charge current as a fraction of capacity.
+type ChargeRateRule struct {
+	Sourced
+	LeadAcidMin float64 `json:"leadAcidMin"`
+	LeadAcidMax float64 `json:"leadAcidMax"`
+}
+
+// BOMRule holds bill-of-materials allowances.
+type BOMRule struct {
+	Sourced
+	Slack float64 `json:"slack"`
+}
+
+// Over returns r with every table that o gives replaced by o's, and o's
+// name and edition when it gives them: a yard's rulebook may override the
+// default one table at a time.
+func (r Rulebook) Over(o *Rulebook) Rulebook {
+	if o == nil {
+		return r
+	}
+	if o.Name != "" {
+		r.Name = o.Name
+	}
+	if o.Edition != "" {
+		r.Edition = o.Edition
+	}
+	pick(&r.VoltageDrop, o.VoltageDrop)
+	pick(&r.Ampacity, o.Ampacity)
+	pick(&r.EngineSpace, o.EngineSpace)
+	pick(&r.Bundling, o.Bundling)
+	pick(&r.Protection, o.Protection)
+	pick(&r.MinimumSize, o.MinimumSize)
+	pick(&r.PV, o.PV)
+	pick(&r.VocFactor, o.VocFactor)
+	pick(&r.DepthOfDischarge, o.DepthOfDischarge)
+	pick(&r.ChargeRate, o.ChargeRate)
+	pick(&r.BOM, o.BOM)
+	return r
+}
+
+func pick[T any](dst **T, src *T) {
+	if src != nil {
+		*dst = src
+	}
+}
