@@ -178,4 +178,3 @@ func contains(list []string, s string) bool {
 	}
 	return false
 }
-
