@@ -25,6 +25,8 @@ times one battery's nominal voltage.
 
     V_bank = N_series × V_battery
 
+Finding: the deviation |V_bank − V_system| / V_system in percent.
+
 Limit: V_bank within 10 % of the system voltage (12, 24 or 48 V). The
 tolerance admits the nominal voltages of the chemistries (12.8 V for a
 four-cell LiFePO4 battery on a 12 V system); it is common practice, not a
@@ -36,9 +38,9 @@ published rule. A bank outside it is wired for another system voltage.`,
 		dev := math.Abs(vb-sys) / sys * 100
 		f := result.Finding{
 			Subject:  "bank",
-			Value:    round(vb, 3),
-			Limit:    sys,
-			Unit:     "V",
+			Value:    round(dev, 3),
+			Limit:    bankVoltageTolerance * 100,
+			Unit:     "%",
 			Margin:   round(bankVoltageTolerance*100-dev, 3),
 			Source:   "common practice (tolerance for nominal cell voltages)",
 			Position: in.Position("bank"),

@@ -150,8 +150,7 @@ func loadErrors(err error) ErrorList {
 	var l ErrorList
 	for _, e := range errors.Errors(err) {
 		pos, rel := designPos(append([]token.Pos{e.Position()}, e.InputPositions()...))
-		format, args := e.Msg()
-		l = append(l, &Error{Pos: pos, Path: pathString(e.Path()), Msg: fmt.Sprintf(format, args...), Related: rel})
+		l = append(l, &Error{Pos: pos, Path: pathString(e.Path()), Msg: errors.StringWithConfig(e, &errors.Config{OmitPath: true}), Related: rel})
 	}
 	if len(l) == 0 {
 		l = append(l, &Error{Msg: err.Error()})
