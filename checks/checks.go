@@ -38,7 +38,7 @@ type Check struct {
 // All is every check, in the order they run.
 var All = []*Check{
 	BankVoltage,
-	ControllerSystem,
+	EquipmentSystem,
 }
 
 // Lookup returns the check with the given ID.

@@ -58,10 +58,10 @@ published rule. A bank outside it is wired for another system voltage.`,
 	},
 }
 
-// ControllerSystem checks that each charge controller and inverter is made
+// EquipmentSystem checks that each charge controller and inverter is made
 // for the system voltage.
-var ControllerSystem = &Check{
-	ID:    "controller.system",
+var EquipmentSystem = &Check{
+	ID:    "equipment.system",
 	Title: "controllers and inverters are rated for the system voltage",
 	Doc: `Checks that every charge controller and inverter lists the boat's
 nominal system voltage among the battery voltages it is made for.

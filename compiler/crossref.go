@@ -23,6 +23,11 @@ func (c *validator) crossCheck() {
 		base := cue.MakePath(cue.Str("loads"), cue.Str(name))
 		c.ref(base, "circuit", "a conductor in wiring", wiring)
 		c.ref(base, "inverter", "an inverter in inverters", inverters)
+		hasCircuit := c.root.LookupPath(appendPath(base, "circuit")).Exists()
+		hasInverter := c.root.LookupPath(appendPath(base, "inverter")).Exists()
+		if !hasCircuit && !hasInverter && c.root.LookupPath(base).Exists() {
+			c.errs.Add(c.dataPos(base), appendPath(base, "circuit").String(), "missing the load's circuit: name the conductor in wiring that feeds it, or, for an AC load, its inverter")
+		}
 		for _, s := range c.keysAt(appendPath(base, "hours")) {
 			if !contains(scenarios, s) {
 				p := appendPath(base, "hours", s)

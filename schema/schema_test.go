@@ -159,3 +159,33 @@ func TestPatternsAgreeWithParser(t *testing.T) {
 		}
 	}
 }
+
+// TestPatternsAcceptEverySpelling checks that each pattern takes every
+// unit spelling the parser takes for its dimension, with and without a
+// space, so that `cue vet` never rejects what ampwright accepts.
+func TestPatternsAcceptEverySpelling(t *testing.T) {
+	ctx := cuecontext.New()
+	v, err := Build(ctx)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for def, dim := range patternDims {
+		pattern := v.LookupPath(cue.ParsePath(def))
+		for _, sp := range unit.Spellings(dim) {
+			num := "12"
+			if dim == unit.DimSize && (sp == "AWG" || sp == "awg") {
+				num = "2/0"
+			}
+			for _, space := range []string{" ", "", "\u00a0"} {
+				in := num + space + sp
+				if _, err := unit.ParseAs(in, dim); err != nil {
+					t.Errorf("parser rejects %q: %v", in, err)
+					continue
+				}
+				if err := pattern.Unify(ctx.Encode(in)).Validate(cue.Concrete(true)); err != nil {
+					t.Errorf("%s rejects %q, which the parser accepts: %v", def, in, err)
+				}
+			}
+		}
+	}
+}

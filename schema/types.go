@@ -112,7 +112,7 @@ type Scenario struct {
 
 // Load is one consumer.
 type Load struct {
-	Circuit  string             `json:"circuit"`
+	Circuit  string             `json:"circuit,omitempty"`
 	Kind     string             `json:"kind"`
 	Current  *unit.Current      `json:"current,omitempty"`
 	Power    *unit.Power        `json:"power,omitempty"`
@@ -161,17 +161,18 @@ type Bank struct {
 
 // Array is one solar array.
 type Array struct {
-	Module         Module  `json:"module"`
-	Series         int     `json:"series"`
-	Strings        int     `json:"strings"`
-	Controller     string  `json:"controller"`
-	Mount          string  `json:"mount"`
-	Tilt           float64 `json:"tilt"`
-	Azimuth        float64 `json:"azimuth"`
-	SwingsAtAnchor bool    `json:"swingsAtAnchor"`
-	Shading        float64 `json:"shading"`
-	Soiling        float64 `json:"soiling"`
-	Mismatch       float64 `json:"mismatch"`
+	Module         Module      `json:"module"`
+	Series         int         `json:"series"`
+	Strings        int         `json:"strings"`
+	Controller     string      `json:"controller"`
+	Mount          string      `json:"mount"`
+	Tilt           float64     `json:"tilt"`
+	Azimuth        float64     `json:"azimuth"`
+	SwingsAtAnchor bool        `json:"swingsAtAnchor"`
+	StringFuse     *Protection `json:"stringFuse,omitempty"`
+	Shading        float64     `json:"shading"`
+	Soiling        float64     `json:"soiling"`
+	Mismatch       float64     `json:"mismatch"`
 }
 
 // Controller is a charge controller fitted to the boat.
@@ -197,6 +198,7 @@ type Conductor struct {
 	Bundle      int              `json:"bundle"`
 	Class       string           `json:"class,omitempty"`
 	Colour      string           `json:"colour,omitempty"`
+	Sheathed    bool             `json:"sheathed"`
 	Cable       *Cable           `json:"cable,omitempty"`
 	Protection  *Protection      `json:"protection,omitempty"`
 }

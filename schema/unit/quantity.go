@@ -436,3 +436,15 @@ func (e *Error) Error() string {
 	return fmt.Sprintf("%q is not %s (%s); expected a value such as %s",
 		e.Input, e.Want.withArticle(), e.Reason, e.Want.Examples())
 }
+
+// Spellings returns every unit spelling the parser accepts for d, canonical
+// spellings first; the schema's patterns are checked against it.
+func Spellings(d Dim) []string {
+	var out []string
+	for _, u := range units {
+		if u.dim == d {
+			out = append(out, u.spellings...)
+		}
+	}
+	return out
+}
