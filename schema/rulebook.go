@@ -9,6 +9,7 @@ type Rulebook struct {
 	Name             string           `json:"name,omitempty"`
 	Edition          string           `json:"edition,omitempty"`
 	VoltageDrop      *VoltageDropRule `json:"voltageDrop,omitempty"`
+	Resistance       *ResistanceRule  `json:"resistance,omitempty"`
 	Ampacity         *AmpacityRule    `json:"ampacity,omitempty"`
 	EngineSpace      *EngineSpaceRule `json:"engineSpace,omitempty"`
 	Bundling         *BundlingRule    `json:"bundling,omitempty"`
@@ -40,8 +41,27 @@ func (s Sourced) Caveat() string {
 // VoltageDropRule holds the voltage-drop limits in percent.
 type VoltageDropRule struct {
 	Sourced
-	Critical float64 `json:"critical"`
-	Other    float64 `json:"other"`
+	Critical      float64  `json:"critical"`
+	Other         float64  `json:"other"`
+	CriticalKinds []string `json:"criticalKinds"`
+	Charging      string   `json:"charging"`
+}
+
+// ResistanceRule is how conductor resistance is found.
+type ResistanceRule struct {
+	Sourced
+	Resistivity  float64          `json:"resistivity"` // Ω·mm²/m at 20 °C
+	Alpha        float64          `json:"alpha"`       // 1/K at 20 °C
+	Temperature  unit.Temperature `json:"temperature"`
+	LayFactor    float64          `json:"layFactor"`
+	TinnedFactor float64          `json:"tinnedFactor"`
+	Metric       MetricResistance `json:"metric"`
+}
+
+// MetricResistance is maximum resistance at 20 °C, Ω/km, by size.
+type MetricResistance struct {
+	Plain  map[string]float64 `json:"plain"`
+	Tinned map[string]float64 `json:"tinned"`
 }
 
 // AmpacityRule is allowable amperes by size, then insulation rating, both
@@ -77,6 +97,8 @@ type ProtectionRule struct {
 	Within         unit.Length `json:"within"`
 	WithinSheathed unit.Length `json:"withinSheathed"`
 	WithinBattery  unit.Length `json:"withinBattery"`
+	// StandardRatings are device ratings in amperes, ascending.
+	StandardRatings []float64 `json:"standardRatings"`
 }
 
 // MinimumSizeRule is the smallest conductor allowed.
@@ -143,6 +165,7 @@ func (r Rulebook) Over(o *Rulebook) Rulebook {
 		r.Edition = o.Edition
 	}
 	pick(&r.VoltageDrop, o.VoltageDrop)
+	pick(&r.Resistance, o.Resistance)
 	pick(&r.Ampacity, o.Ampacity)
 	pick(&r.EngineSpace, o.EngineSpace)
 	pick(&r.Bundling, o.Bundling)
