@@ -38,7 +38,9 @@ func (c *validator) crossCheck() {
 		pow := c.root.LookupPath(appendPath(base, "power")).Exists()
 		switch {
 		case cur && pow:
-			c.errs.Add(c.dataPos(base), base.String(), "give the load's current or its power, not both")
+			cs, _ := c.root.LookupPath(appendPath(base, "current")).String()
+			ps, _ := c.root.LookupPath(appendPath(base, "power")).String()
+			c.errs.Add(c.dataPos(base), base.String(), "the load gives both current %q and power %q; give one", cs, ps)
 		case !cur && !pow && c.root.LookupPath(base).Exists():
 			c.errs.Add(c.dataPos(base), base.String(), "missing the load's draw: give current, such as \"4.5 A\", or power, such as \"60 W\"")
 		}
@@ -49,12 +51,8 @@ func (c *validator) crossCheck() {
 	for _, name := range c.keys("arrays") {
 		c.ref(cue.MakePath(cue.Str("arrays"), cue.Str(name)), "controller", "a controller in controllers", controllers)
 	}
-	if legs := c.root.LookupPath(cue.ParsePath("voyage.legs")); legs.Exists() {
-		if it, err := legs.List(); err == nil {
-			for it.Next() {
-				c.ref(it.Value().Path(), "scenario", "a scenario in scenarios", scenarios)
-			}
-		}
+	for _, leg := range elements(c.root.LookupPath(cue.ParsePath("voyage.legs"))) {
+		c.ref(leg.Path(), "scenario", "a scenario in scenarios", scenarios)
 	}
 	c.ref(cue.ParsePath("autonomy"), "scenario", "a scenario in scenarios", scenarios)
 	c.months()
@@ -76,8 +74,8 @@ func (c *validator) crossCheck() {
 	}
 	for _, name := range wiring {
 		base := cue.MakePath(cue.Str("wiring"), cue.Str(name))
-		c.ref(base, "from", "a node (bank, a bus, array, controller, inverter or load)", nodes)
-		c.ref(base, "to", "a node (bank, a bus, array, controller, inverter or load)", nodes)
+		c.refNoun(base, "from", "node", "bank, a bus, array, controller, inverter or load", nodes)
+		c.refNoun(base, "to", "node", "bank, a bus, array, controller, inverter or load", nodes)
 		from, _ := c.root.LookupPath(appendPath(base, "from")).String()
 		to, _ := c.root.LookupPath(appendPath(base, "to")).String()
 		if from != "" && from == to {
@@ -92,19 +90,14 @@ func (c *validator) crossCheck() {
 // months checks the months in use: no month twice, and irradiation given
 // for each.
 func (c *validator) months() {
-	months := c.root.LookupPath(cue.ParsePath("site.months"))
-	it, err := months.List()
-	if err != nil {
-		return
-	}
 	seen := map[string]bool{}
 	irr := cue.ParsePath("site.irradiation")
-	for it.Next() {
-		m, err := it.Value().String()
+	for _, mv := range elements(c.root.LookupPath(cue.ParsePath("site.months"))) {
+		m, err := mv.String()
 		if err != nil {
 			continue
 		}
-		p := it.Value().Path()
+		p := mv.Path()
 		if seen[m] {
 			c.errs.Add(c.dataPos(p), p.String(), "duplicate month %q", m)
 			continue
@@ -133,6 +126,11 @@ func (c *validator) similarNames(group string) {
 
 // ref checks that the string field of base names one of names.
 func (c *validator) ref(base cue.Path, field, what string, names []string) {
+	c.refNoun(base, field, field, what, names)
+}
+
+// refNoun is ref with the noun the message uses for the name.
+func (c *validator) refNoun(base cue.Path, field, noun, what string, names []string) {
 	p := appendPath(base, field)
 	v := c.root.LookupPath(p)
 	if !v.Exists() {
@@ -145,7 +143,7 @@ func (c *validator) ref(base cue.Path, field, what string, names []string) {
 	c.errs = append(c.errs, &Error{
 		Pos:  c.dataPos(p),
 		Path: p.String(),
-		Msg:  fmt.Sprintf("unknown %s %q: expected %s%s", field, s, what, suggest(s, names)),
+		Msg:  fmt.Sprintf("unknown %s %q: expected %s%s", noun, s, what, suggest(s, names)),
 	})
 }
 

@@ -89,7 +89,65 @@ func loadInstance(dir string) (*build.Instance, []string, error) {
 	if len(inst.BuildFiles) == 0 {
 		return inst, nil, fmt.Errorf("design %s: no .cue files", dir)
 	}
+	if err := checkVendoredSchema(inst); err != nil {
+		return inst, nil, err
+	}
 	return inst, instanceFiles(inst), nil
+}
+
+// checkVendoredSchema fails when the design imports a vendored copy of the
+// schema that is not the one built into this ampwright: unified with the
+// built-in one, a stale copy gives errors that point at the designer's
+// lines for fields they never wrote.
+func checkVendoredSchema(inst *build.Instance) error {
+	var vendored *build.Instance
+	seen := map[*build.Instance]bool{}
+	var walk func(*build.Instance)
+	walk = func(i *build.Instance) {
+		if seen[i] || vendored != nil {
+			return
+		}
+		seen[i] = true
+		for _, imp := range i.Imports {
+			if imp.ImportPath == schema.ImportPath {
+				vendored = imp
+				return
+			}
+			walk(imp)
+		}
+	}
+	walk(inst)
+	if vendored == nil {
+		return nil
+	}
+	if len(vendored.BuildFiles) == 0 {
+		return nil
+	}
+	names, want := schema.Vendored()
+	dir := displayName(filepath.Dir(vendored.BuildFiles[0].Filename))
+	stale := func(why string) error {
+		return fmt.Errorf("the schema vendored at %s is not the one built into this ampwright (%s); refresh it with: ampwright schema --out %s", dir, why, dir)
+	}
+	got := map[string]bool{}
+	for _, f := range vendored.BuildFiles {
+		base := filepath.Base(f.Filename)
+		got[base] = true
+		b, err := os.ReadFile(f.Filename)
+		if err != nil {
+			return err
+		}
+		if w, ok := want[base]; !ok {
+			return stale(base + " is not part of it")
+		} else if string(b) != string(w) {
+			return stale(base + " differs")
+		}
+	}
+	for _, n := range names {
+		if !got[n] {
+			return stale(n + " is missing")
+		}
+	}
+	return nil
 }
 
 func unwrapPathError(err error) error {

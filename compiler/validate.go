@@ -59,9 +59,9 @@ func (c *validator) walk(v cue.Value) {
 			}
 			c.walk(it.Value())
 		}
-	} else if it, err := v.List(); err == nil {
-		for it.Next() {
-			c.walk(it.Value())
+	} else {
+		for _, e := range elements(v) {
+			c.walk(e)
 		}
 	}
 	if len(c.errs) > n {
@@ -99,8 +99,32 @@ func (c *validator) missing(parent cue.Value, sel cue.Selector, field cue.Value)
 		if d, ok := unit.DimByName(firstArg(a)); ok {
 			msg += fmt.Sprintf(": expected %s %s such as %s", article(d.String()), d, d.Examples())
 		}
+	} else if what := docPhrase(field, name); what != "" {
+		msg += ": " + what
 	}
 	c.errs = append(c.errs, &Error{Pos: c.dataPos(parent.Path()), Path: path, Msg: msg})
+}
+
+// docPhrase is what the schema's doc comment on a field says it is: for
+// "// bank is the house battery bank." it returns "the house battery bank".
+func docPhrase(v cue.Value, name string) string {
+	for _, cg := range v.Doc() {
+		text := strings.TrimSpace(cg.Text())
+		if text == "" {
+			continue
+		}
+		first, _, _ := strings.Cut(text, ".")
+		first = strings.Join(strings.Fields(first), " ")
+		for _, verb := range []string{" is ", " are ", " names "} {
+			if rest, ok := strings.CutPrefix(first, name+verb); ok {
+				if verb == " names " {
+					return "it names " + rest
+				}
+				return rest
+			}
+		}
+	}
+	return ""
 }
 
 // dataPos is the design's own position of the value at p, or of the
@@ -206,6 +230,19 @@ func writtenString(v cue.Value) (string, error) {
 	return "", err
 }
 
+// writtenNonString finds a concrete operand that is not a string in a
+// value in error: a number written where a quantity was expected.
+func writtenNonString(v cue.Value) (string, cue.Kind, bool) {
+	if _, args := v.Expr(); len(args) > 1 {
+		for _, a := range args {
+			if k := a.Kind(); a.IsConcrete() && k != cue.StringKind && k != cue.BottomKind {
+				return fmt.Sprint(a), k, true
+			}
+		}
+	}
+	return "", 0, false
+}
+
 func unquote(s string) string {
 	if u, err := strconv.Unquote(s); err == nil {
 		return u
@@ -236,6 +273,10 @@ func (c *validator) quantity(v cue.Value, a cue.Attribute) {
 	if err != nil {
 		switch k := dv.IncompleteKind(); {
 		case k == cue.BottomKind:
+			if lit, kind, ok := writtenNonString(dv); ok {
+				bad("%s is %s %s, not a quantity; expected %s %s with its unit, such as %s", lit, article(kindName(kind)), kindName(kind), article(dim.String()), dim, dim.Examples())
+				return
+			}
 			// An error in the expression itself, such as a bad reference.
 			c.report(v, errors.Errors(dv.Err()))
 		case !dv.IsConcrete():
@@ -336,6 +377,19 @@ func (c *validator) reportGroup(path string, errs []errors.Error) {
 		c.errs = append(c.errs, &Error{Pos: pos, Path: path, Msg: msg, Related: related})
 	}
 	if disjunction && len(alts) > 1 {
+		// One schema position says where the choices are; one per
+		// alternative is noise.
+		// Keep the first position of the last schema line: the field's own
+		// list of choices, not the struct that holds it.
+		if len(related) > 1 {
+			last := related[len(related)-1]
+			for _, p := range related {
+				if p.Filename() == last.Filename() && p.Line() == last.Line() {
+					related = []token.Pos{p}
+					break
+				}
+			}
+		}
 		add(c.disjunctionMessage(path, alts))
 		return
 	}
@@ -371,7 +425,15 @@ func (c *validator) disjunctionMessage(path string, alts []errors.Error) string 
 			}
 		}
 	}
-	return fmt.Sprintf("%s is not allowed here; expected one of %s", given, strings.Join(literals, ", "))
+	var plain []string
+	for _, l := range literals {
+		plain = append(plain, unquote(l))
+	}
+	msg := fmt.Sprintf("%s is not allowed here; expected one of %s", given, strings.Join(literals, ", "))
+	if m := nearMatches(unquote(given), plain); len(m) > 0 && len(m) < len(plain) && len(m) <= 2 {
+		msg += "; did you mean " + quoteList(m, "or") + "?"
+	}
+	return msg
 }
 
 // message rewords one CUE error.
@@ -469,17 +531,64 @@ func valueText(v cue.Value) string {
 	return fmt.Sprint(v)
 }
 
-// selectorStrings spells a path's selectors as CUE prints them.
+// selectorStrings spells a path's selectors as CUE error paths do.
 func selectorStrings(p cue.Path) []string {
 	sels := p.Selectors()
 	out := make([]string, len(sels))
 	for i, s := range sels {
+		if s.Type() == cue.IndexLabel {
+			out[i] = strconv.Itoa(s.Index())
+			continue
+		}
 		out[i] = s.String()
 	}
 	return out
 }
 
-func pathString(sels []string) string { return strings.Join(sels, ".") }
+// pathString spells a path given as CUE error paths give it, list
+// indices as bare numbers, the way cue.Path prints it: a.b[0].c.
+func pathString(sels []string) string {
+	var b strings.Builder
+	for i, s := range sels {
+		if isIndex(s) {
+			b.WriteString("[" + s + "]")
+			continue
+		}
+		if i > 0 {
+			b.WriteByte('.')
+		}
+		b.WriteString(s)
+	}
+	return b.String()
+}
+
+func isIndex(s string) bool {
+	if s == "" {
+		return false
+	}
+	for _, r := range s {
+		if r < '0' || r > '9' {
+			return false
+		}
+	}
+	return true
+}
+
+// elements returns the elements of a list value, even one in which some
+// element is in error, where v.List would give up on all of them.
+func elements(v cue.Value) []cue.Value {
+	if v.IncompleteKind() != cue.ListKind && v.IncompleteKind() != cue.BottomKind {
+		return nil
+	}
+	var out []cue.Value
+	for i := 0; ; i++ {
+		e := v.LookupPath(cue.MakePath(cue.Index(i)))
+		if !e.Exists() {
+			return out
+		}
+		out = append(out, e)
+	}
+}
 
 func joinPath(parent string, sel cue.Selector) string {
 	s := sel.Unquoted()
