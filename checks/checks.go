@@ -20,7 +20,21 @@ type Input struct {
 	// Position returns file:line:col for a CUE path such as
 	// wiring."bank-main", or "".
 	Position func(path string) string
+	// Network is the wiring as a tree from the bank.
+	Network *Network
 }
+
+// Report collects what checks find.
+type Report struct {
+	Findings []result.Finding
+	Figures  []result.Figure
+}
+
+// Add records a finding.
+func (r *Report) Add(f result.Finding) { r.Findings = append(r.Findings, f) }
+
+// Figure records a computed figure.
+func (r *Report) Figure(f result.Figure) { r.Figures = append(r.Figures, f) }
 
 // Check is one engineering check.
 type Check struct {
@@ -31,14 +45,23 @@ type Check struct {
 	// Doc is what `ampwright explain ID` prints: what it checks, the
 	// method, the formula, the limit and its source.
 	Doc string
-	// Run reports the check's findings on the design.
-	Run func(*Input) []result.Finding
+	// Run reports the check's findings, and the figures behind them.
+	Run func(*Input, *Report)
 }
 
 // All is every check, in the order they run.
 var All = []*Check{
 	BankVoltage,
 	EquipmentSystem,
+	Resistance,
+	VoltageDrop,
+	Ampacity,
+	MinimumSize,
+	Protected,
+	Rating,
+	Distance,
+	Interrupting,
+	StringFuse,
 }
 
 // Lookup returns the check with the given ID.
@@ -71,17 +94,20 @@ func Validate(list []*Check) error {
 	return nil
 }
 
-// Run runs every check in list over in and returns the findings, worst
-// first.
-func Run(list []*Check, in *Input) []result.Finding {
-	var out []result.Finding
+// RunAll runs every check in list over in and returns the findings, worst
+// first, and the figures in the order the checks gave them.
+func RunAll(list []*Check, in *Input) ([]result.Finding, []result.Figure) {
+	var all Report
 	for _, c := range list {
-		for _, f := range c.Run(in) {
+		var rep Report
+		c.Run(in, &rep)
+		for _, f := range rep.Findings {
 			f.ID = c.ID
-			out = append(out, f)
+			all.Findings = append(all.Findings, f)
 		}
+		all.Figures = append(all.Figures, rep.Figures...)
 	}
-	r := result.Result{Checks: out}
+	r := result.Result{Checks: all.Findings}
 	r.SortChecks()
-	return r.Checks
+	return r.Checks, all.Figures
 }

@@ -55,7 +55,9 @@ func TestBankVoltage(t *testing.T) {
 				Vessel: schema.Vessel{System: tt.system},
 				Bank:   schema.Bank{Series: tt.series, Parallel: 1, Battery: schema.Battery{Voltage: mustQ(t, tt.battery, unit.DimVoltage, volt)}},
 			}
-			fs := BankVoltage.Run(&Input{Design: d, Position: func(string) string { return "" }})
+			var rep Report
+			BankVoltage.Run(&Input{Design: d, Position: func(string) string { return "" }}, &rep)
+			fs := rep.Findings
 			if len(fs) != 1 {
 				t.Fatalf("got %d findings, want 1", len(fs))
 			}

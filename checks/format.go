@@ -25,3 +25,13 @@ func quotePath(name string) string {
 	}
 	return strconv.Quote(name)
 }
+
+func amps(i float64) string { return strconv.FormatFloat(round(i, 2), 'f', -1, 64) + " A" }
+
+// lengthText writes a length in the design's preferred units.
+func lengthText(in *Input, metres float64) string {
+	if in.Design.Vessel.Units == "imperial" {
+		return strconv.FormatFloat(round(metres/0.3048, 2), 'f', -1, 64) + " ft"
+	}
+	return strconv.FormatFloat(round(metres, 3), 'f', -1, 64) + " m"
+}

@@ -31,7 +31,7 @@ Limit: V_bank within 10 % of the system voltage (12, 24 or 48 V). The
 tolerance admits the nominal voltages of the chemistries (12.8 V for a
 four-cell LiFePO4 battery on a 12 V system); it is common practice, not a
 published rule. A bank outside it is wired for another system voltage.`,
-	Run: func(in *Input) []result.Finding {
+	Run: func(in *Input, out *Report) {
 		d := in.Design
 		sys := d.Vessel.SystemVolts()
 		vb := float64(d.Bank.Series) * d.Bank.Battery.Voltage.Volts()
@@ -54,7 +54,7 @@ published rule. A bank outside it is wired for another system voltage.`,
 				f.Change = fmt.Sprintf("put %d batteries in series (%s), or choose a battery for the %s system", n, volts(float64(n)*d.Bank.Battery.Voltage.Volts()), d.Vessel.System)
 			}
 		}
-		return []result.Finding{f}
+		out.Add(f)
 	},
 }
 
@@ -71,9 +71,8 @@ voltage. A part whose catalog entry lists no systems is reported as a
 warning: its datasheet must be checked by hand.
 
 Source: the maker's data for the part, as entered in the yard catalog.`,
-	Run: func(in *Input) []result.Finding {
+	Run: func(in *Input, out *Report) {
 		d := in.Design
-		var out []result.Finding
 		check := func(path, subject string, part schema.Part, systems []string) {
 			f := result.Finding{
 				Subject:  subject,
@@ -94,7 +93,7 @@ Source: the maker's data for the part, as entered in the yard catalog.`,
 				f.Message = fmt.Sprintf("%s is made for %v, not %s", part.ID, systems, d.Vessel.System)
 				f.Change = fmt.Sprintf("choose a part made for %s", d.Vessel.System)
 			}
-			out = append(out, f)
+			out.Add(f)
 		}
 		for _, name := range schema.Names(d.Controllers) {
 			c := d.Controllers[name]
@@ -104,6 +103,5 @@ Source: the maker's data for the part, as entered in the yard catalog.`,
 			inv := d.Inverters[name]
 			check(`inverters.`+quotePath(name), name, inv.Part.Part, inv.Part.Systems)
 		}
-		return out
 	},
 }

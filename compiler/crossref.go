@@ -25,6 +25,9 @@ func (c *validator) crossCheck() {
 		c.ref(base, "inverter", "an inverter in inverters", inverters)
 		hasCircuit := c.root.LookupPath(appendPath(base, "circuit")).Exists()
 		hasInverter := c.root.LookupPath(appendPath(base, "inverter")).Exists()
+		if hasCircuit && hasInverter {
+			c.errs.Add(c.dataPos(appendPath(base, "circuit")), appendPath(base, "circuit").String(), "an AC load is fed by its inverter: give inverter or circuit, not both")
+		}
 		if !hasCircuit && !hasInverter && c.root.LookupPath(base).Exists() {
 			c.errs.Add(c.dataPos(base), appendPath(base, "circuit").String(), "missing the load's circuit: name the conductor in wiring that feeds it, or, for an AC load, its inverter")
 		}

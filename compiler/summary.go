@@ -1,6 +1,9 @@
 package compiler
 
 import (
+	"math"
+	"strings"
+
 	"github.com/ampwright/ampwright/checks"
 	"github.com/ampwright/ampwright/result"
 	"github.com/ampwright/ampwright/schema"
@@ -13,9 +16,16 @@ func Compile(dir string) (*result.Result, *Design, error) {
 	if err != nil {
 		return nil, nil, err
 	}
+	net, errs := buildNetwork(d)
+	if len(errs) > 0 {
+		return nil, nil, errs
+	}
 	r := d.Result()
-	in := &checks.Input{Design: d.Spec, Rules: d.Rules, Position: d.Position}
-	r.Checks = checks.Run(checks.All, in)
+	in := &checks.Input{Design: d.Spec, Rules: d.Rules, Position: d.Position, Network: net}
+	var figures []result.Figure
+	r.Checks, figures = checks.RunAll(checks.All, in)
+	r.Figures = append(r.Figures, figures...)
+	r.Wiring = wiringTable(net, r)
 	return r, d, nil
 }
 
@@ -136,3 +146,46 @@ func arrayFigures(d *Design) []result.Figure {
 	}
 	return out
 }
+
+// wiringTable is one line per run with the figures of the wiring checks
+// and the worst status of its wiring and protection findings.
+func wiringTable(net *checks.Network, r *result.Result) []result.WiringLine {
+	fig := map[[2]string]float64{}
+	for _, f := range r.Figures {
+		fig[[2]string{f.ID, f.Subject}] = f.Value
+	}
+	status := map[string]result.Status{}
+	limit := map[string]float64{}
+	for _, f := range r.Checks {
+		if !strings.HasPrefix(f.ID, "wiring.") && !strings.HasPrefix(f.ID, "protection.") {
+			continue
+		}
+		if s, ok := status[f.Subject]; !ok || f.Status.Rank() < s.Rank() {
+			status[f.Subject] = f.Status
+		}
+		if f.ID == "wiring.voltageDrop" {
+			limit[f.Subject] = f.Limit
+		}
+	}
+	var out []result.WiringLine
+	for _, run := range net.Runs {
+		line := result.WiringLine{
+			Name: run.Name, From: run.Spec.From, To: run.Spec.To, Role: string(run.Role),
+			Length: run.Spec.Length.Metres(), LengthText: run.Spec.Length.Text,
+			Size: run.Spec.Size.Text, Current: round3(run.Current), CurrentBasis: run.Basis,
+			Class: run.Class, Drop: fig[[2]string{"wiring.voltageDrop", run.Name}], DropLimit: limit[run.Name],
+			Ampacity: fig[[2]string{"wiring.ampacity", run.Name}],
+			Status:   status[run.Name],
+		}
+		if p := run.Spec.Protection; p != nil {
+			line.Protection = p.Rating.Text + " " + p.Kind
+		}
+		if line.Status == "" {
+			line.Status = result.Pass
+		}
+		out = append(out, line)
+	}
+	return out
+}
+
+func round3(x float64) float64 { return math.Round(x*1000) / 1000 }

@@ -7,6 +7,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 	"strings"
 	"text/tabwriter"
@@ -64,24 +65,52 @@ func Text(w io.Writer, r *result.Result) error {
 	}
 	t.flush()
 
-	p.section(fmt.Sprintf("Circuits (%d)", len(s.Circuits)))
-	t = p.table("circuit", "from → to", "length", "size", "protection")
-	for _, k := range s.Circuits {
-		t.row(k.Name, k.From+" → "+k.To, k.Length, k.Size, k.Protection)
+	p.section(fmt.Sprintf("Wiring (%d runs)", len(r.Wiring)))
+	imperial := d.Units == "imperial"
+	t = p.table("circuit", "from → to", "length", "size", "current", "drop", "limit", "ampacity", "protection", "status")
+	for _, w := range r.Wiring {
+		drop, limit := "-", "-"
+		if w.DropLimit > 0 {
+			drop, limit = fmt.Sprintf("%.2f %%", w.Drop), fmt.Sprintf("%g %%", w.DropLimit)
+		}
+		t.row(w.Name, w.From+" → "+w.To, length(w.Length, imperial), w.Size,
+			fmt.Sprintf("%.1f A", w.Current), drop, limit, fmt.Sprintf("%.0f A", w.Ampacity), orDash(w.Protection), string(w.Status))
 	}
 	t.flush()
 
 	p.section("Findings")
+	passed := 0
 	for _, f := range r.Checks {
-		p.line("%-4s %-18s %-14s %s", strings.ToUpper(string(f.Status)), f.ID, f.Subject, f.Message)
+		if f.Status == result.Pass {
+			passed++
+			continue
+		}
+		p.line("%s %s %s: %s", strings.ToUpper(string(f.Status)), f.ID, f.Subject, f.Message)
 		if f.Change != "" {
 			p.line("     change: %s", f.Change)
 		}
-		if f.Status != result.Pass && f.Position != "" {
+		if f.Position != "" {
 			p.line("     at %s", f.Position)
 		}
+		p.line("     limit from: %s", f.Source)
 	}
+	p.line("%d findings pass; `--format json` lists every one with its figures", passed)
 	return p.err
+}
+
+// length writes metres in the design's preferred units.
+func length(m float64, imperial bool) string {
+	if imperial {
+		return strconv.FormatFloat(math.Round(m/0.3048*10)/10, 'f', -1, 64) + " ft"
+	}
+	return strconv.FormatFloat(math.Round(m*100)/100, 'f', -1, 64) + " m"
+}
+
+func orDash(s string) string {
+	if s == "" {
+		return "-"
+	}
+	return s
 }
 
 // Problems writes input errors, one a line, each with its related

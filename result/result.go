@@ -45,6 +45,8 @@ type Result struct {
 	Figures []Figure `json:"figures"`
 	// Checks are the findings of every check, worst first.
 	Checks []Finding `json:"checks"`
+	// Wiring is one line per conductor run with its wiring figures.
+	Wiring []WiringLine `json:"wiring"`
 	// Problems are input errors; a Result with problems has no figures.
 	Problems []Problem `json:"problems,omitempty"`
 }
@@ -117,6 +119,32 @@ type CircuitLine struct {
 	Length     string `json:"length"`
 	Size       string `json:"size"`
 	Protection string `json:"protection,omitempty"`
+}
+
+// WiringLine is one conductor run of the wiring schedule.
+type WiringLine struct {
+	Name string `json:"name"`
+	// From and To are the run's ends, From nearer the bank.
+	From string `json:"from"`
+	To   string `json:"to"`
+	// Role is supply, charge or pv.
+	Role string `json:"role"`
+	// Length is the one-way length in metres; LengthText as written.
+	Length     float64 `json:"length"`
+	LengthText string  `json:"lengthText"`
+	Size       string  `json:"size"`
+	// Current is the design current, A, and CurrentBasis how it was found.
+	Current      float64 `json:"current"`
+	CurrentBasis string  `json:"currentBasis"`
+	Class        string  `json:"class"`
+	// Drop and DropLimit are percent of nominal voltage.
+	Drop      float64 `json:"drop"`
+	DropLimit float64 `json:"dropLimit"`
+	// Ampacity is the derated allowable current, A.
+	Ampacity   float64 `json:"ampacity"`
+	Protection string  `json:"protection,omitempty"`
+	// Status is the worst of the run's wiring and protection findings.
+	Status Status `json:"status"`
 }
 
 // Figure is a computed value with what it was computed from.

@@ -1,0 +1,318 @@
+package checks
+
+import (
+	"fmt"
+
+	"github.com/ampwright/ampwright/result"
+	"github.com/ampwright/ampwright/schema"
+	"github.com/ampwright/ampwright/schema/unit"
+)
+
+// VoltageDrop checks each run's voltage drop against its class limit.
+var VoltageDrop = &Check{
+	ID:    "wiring.voltageDrop",
+	Title: "voltage drop of each run within its class limit",
+	Doc: `Checks the voltage drop of every conductor run at its design current.
+
+Method: a DC run returns on its own conductor of the same size and length,
+so the drop is over twice the one-way length. The resistance per metre R′ is
+found at the conductor temperature (see wiring.resistance).
+
+    ΔV = I × 2 × L × R′(T)
+    drop = ΔV / V_nominal × 100 %
+
+I is the run's design current: the loads it feeds at full draw (duty cycles
+reduce energy, not current), a controller's rated output for a charge run.
+V is the nominal system voltage. For a solar run, I is the strings' current
+at maximum power (Imp × strings) and V the voltage the array works at: the
+strings' Vmp behind an MPPT controller, the battery's nominal voltage behind
+a PWM one.
+
+Limit: by the run's class, from the rulebook (default: 3 % for critical
+circuits, 10 % for others, ABYC E-11 11.14.2.6). Critical: navigation
+lights, bilge pumps and blowers, electronics, panelboard main feeders, and
+(common practice) charging runs; a design may set a run's class.
+
+A failing run is given the smallest standard size of its family (AWG or
+mm²) that passes every wiring check.`,
+	Run: func(in *Input, out *Report) {
+		for _, r := range in.Network.Runs {
+			if r.DropCurrent <= 0 {
+				continue
+			}
+			m := measure(in, r, r.Spec.Size)
+			limit := dropLimit(in.Rules, r.Class)
+			out.Figure(result.Figure{
+				ID: "wiring.voltageDrop", Subject: r.Name, Value: round(m.dropPct, 3), Unit: "%",
+				Formula: "drop = I × 2 × L × R′(T) / V × 100",
+				Inputs: []result.Input{
+					{Name: "I", Value: round(r.DropCurrent, 3), Unit: "A", From: r.DropBasis},
+					{Name: "L", Value: round(r.Spec.Length.Metres(), 4), Unit: "m", From: r.Path + ".length"},
+					{Name: "R′(T)", Value: round(m.res.rT*1000, 5), Unit: "mΩ/m", From: "wiring.resistance"},
+					{Name: "V", Value: round(r.DropVoltage, 3), Unit: "V", From: r.VoltBasis},
+				},
+				Source: in.Rules.VoltageDrop.Source,
+			})
+			f := result.Finding{
+				Subject: r.Name, Value: round(m.dropPct, 2), Limit: limit, Unit: "%",
+				Margin:   round(limit-m.dropPct, 2),
+				Source:   sourced(in.Rules.VoltageDrop.Sourced),
+				Position: in.Position(r.Path),
+				Message: fmt.Sprintf("%s × 2 × %s × %.4g mΩ/m = %.3g V, %.2f %% of %s (%s: %s)",
+					amps(r.DropCurrent), lengthText(in, r.Spec.Length.Metres()), m.res.rT*1000, m.dropV, m.dropPct, volts(r.DropVoltage), r.Class, r.ClassBasis),
+				Status: result.Pass,
+			}
+			if m.dropPct > limit {
+				f.Status = result.Fail
+				f.Change = changeFor(in, r)
+			}
+			out.Add(f)
+		}
+	},
+}
+
+// Resistance reports each run's resistance at its conductor temperature.
+var Resistance = &Check{
+	ID:    "wiring.resistance",
+	Title: "resistance of each conductor at its temperature",
+	Doc: `Finds the resistance per metre of every conductor at the temperature
+the voltage-drop check uses, and warns where it had to fall back on a
+nominal area.
+
+Method: for AWG sizes, the cross-section from the ASTM B258 diameter
+d = 0.127 mm × 92^((36 − n)/39) and the resistivity of annealed copper
+(IEC 60028: 1/58 Ω·mm²/m at 20 °C), times a lay factor for stranding and a
+factor for tinned copper. For metric sizes, the maximum resistance at 20 °C
+from the rulebook's table (IEC 60228 class 5, plain or tinned); a size not
+in the table uses ρ/A on its nominal area, with a warning. Then
+
+    R′(T) = R′(20 °C) × (1 + α × (T − 20 °C)),  α = 0.00393 /K
+
+T is the rulebook's conductor temperature (default 30 °C: ABYC's voltage-drop
+constant K = 10.75 Ω·cmil/ft is copper at about 29 °C, where 20 °C copper is
+10.37), or the engine-space temperature for a run through an engine space
+when that is higher.`,
+	Run: func(in *Input, out *Report) {
+		for _, r := range in.Network.Runs {
+			res := conductorResistance(in.Rules, r.Spec, r.Spec.Size, runTemperature(in, r.Spec))
+			out.Figure(result.Figure{
+				ID: "wiring.resistance", Subject: r.Name, Value: round(res.rT*1000, 5), Unit: "mΩ/m",
+				Formula: "R′(T) = R′(20 °C) × (1 + α × (T − 20 °C)); " + res.basis,
+				Inputs: []result.Input{
+					{Name: "R′(20 °C)", Value: round(res.r20*1000, 5), Unit: "mΩ/m", From: r.Path + ".size"},
+					{Name: "α", Value: in.Rules.Resistance.Alpha, Unit: "1/K", From: "rules.resistance.alpha"},
+					{Name: "T", Value: res.temp, Unit: "°C", From: "rules.resistance.temperature"},
+				},
+				Source: in.Rules.Resistance.Source,
+			})
+			if !res.fromTable {
+				out.Add(result.Finding{
+					Subject: r.Name, Status: result.Warn, Value: round(res.rT*1000, 5), Unit: "mΩ/m",
+					Message:  fmt.Sprintf("%s is not in the rulebook's resistance table; %s", r.Spec.Size.Text, res.basis),
+					Source:   sourced(in.Rules.Resistance.Sourced),
+					Position: in.Position(r.Path),
+				})
+			}
+		}
+	},
+}
+
+// Ampacity checks each run's derated ampacity against its design current.
+var Ampacity = &Check{
+	ID:    "wiring.ampacity",
+	Title: "derated ampacity of each run at least its design current",
+	Doc: `Checks that every conductor can carry its design current.
+
+Method: the allowable current from the rulebook's ampacity table, by the
+conductor's size and the highest insulation rating not above its own
+(default: 33 CFR 183.425 Table 5, conductors under 50 V, not bundled, 30 °C
+ambient). A metric size takes the row of the largest tabled size of no
+greater area, which is conservative. Then
+
+    I_allowed = I_table × F_engine × F_bundle
+
+F_engine is the rulebook's engine-space factor for the insulation rating
+(33 CFR 183.425 Table 5 note 1) for a run through an engine space, else 1;
+F_bundle the rulebook's factor for the number of current-carrying
+conductors bundled together (note 2), else 1.
+
+Limit: the design current I (as in wiring.voltageDrop, for solar runs
+1.56 × Isc × strings, NEC 690.8(B)) must not exceed I_allowed.`,
+	Run: func(in *Input, out *Report) {
+		for _, r := range in.Network.Runs {
+			a := conductorAmpacity(in, r.Spec, r.Spec.Size)
+			f := result.Finding{
+				Subject: r.Name, Unit: "A", Value: round(r.Current, 2),
+				Source:   sourced(in.Rules.Ampacity.Sourced),
+				Position: in.Position(r.Path),
+				Status:   result.Pass,
+			}
+			if !a.ok {
+				f.Status = result.Fail
+				f.Message = a.note
+				f.Change = changeFor(in, r)
+				out.Add(f)
+				continue
+			}
+			out.Figure(result.Figure{
+				ID: "wiring.ampacity", Subject: r.Name, Value: round(a.derated, 2), Unit: "A",
+				Formula: "I_allowed = I_table × F_engine × F_bundle",
+				Inputs: []result.Input{
+					{Name: "I_table", Value: a.table, Unit: "A", From: fmt.Sprintf("rules.ampacity.table[%q][%q]", a.sizeKey, a.ratingKey)},
+					{Name: "F_engine", Value: a.engine, From: r.Path + ".engineSpace"},
+					{Name: "F_bundle", Value: a.bundle, From: r.Path + ".bundle"},
+				},
+				Source: in.Rules.Ampacity.Source,
+			})
+			f.Limit = round(a.derated, 2)
+			f.Margin = round(a.derated-r.Current, 2)
+			f.Message = fmt.Sprintf("%s design current (%s) against %g A × %g × %g = %s allowed", amps(r.Current), r.Basis, a.table, a.engine, a.bundle, amps(a.derated))
+			if a.note != "" {
+				f.Message += "; " + a.note
+			}
+			if r.Current > a.derated {
+				f.Status = result.Fail
+				f.Change = changeFor(in, r)
+			}
+			out.Add(f)
+		}
+	},
+}
+
+// MinimumSize checks each conductor against the smallest size allowed.
+var MinimumSize = &Check{
+	ID:    "wiring.minimumSize",
+	Title: "no conductor smaller than the minimum size",
+	Doc: `Checks that no conductor is smaller than the rulebook's minimum size.
+
+Limit: the rulebook's general minimum, or its minimum for conductors in a
+sheath (default: 16 AWG, or 18 AWG inside a sheath, 33 CFR 183.425).`,
+	Run: func(in *Input, out *Report) {
+		ms := in.Rules.MinimumSize
+		for _, r := range in.Network.Runs {
+			min := ms.General
+			if r.Spec.Sheathed {
+				min = ms.Sheathed
+			}
+			area, limit := r.Spec.Size.MM2(), min.MM2()
+			f := result.Finding{
+				Subject: r.Name, Value: round(area, 3), Limit: round(limit, 3), Unit: "mm²",
+				Margin:   round(area-limit, 3),
+				Source:   sourced(ms.Sourced),
+				Position: in.Position(r.Path),
+				Message:  fmt.Sprintf("%s (%.3g mm²) against the minimum %s (%.3g mm²)", r.Spec.Size.Text, area, min.Text, limit),
+				Status:   result.Pass,
+			}
+			if area < limit*(1-1e-9) {
+				f.Status = result.Fail
+				f.Change = changeFor(in, r)
+			}
+			out.Add(f)
+		}
+	},
+}
+
+// measured is a run's drop and ampacity at one size.
+type measured struct {
+	res     resistance
+	dropV   float64
+	dropPct float64
+	amp     ampacity
+}
+
+func measure(in *Input, r *Run, size unit.Size) measured {
+	res := conductorResistance(in.Rules, r.Spec, size, runTemperature(in, r.Spec))
+	dv := voltageDrop(r.DropCurrent, r.Spec.Length.Metres(), res.rT)
+	return measured{
+		res:     res,
+		dropV:   dv,
+		dropPct: dv / r.DropVoltage * 100,
+		amp:     conductorAmpacity(in, r.Spec, size),
+	}
+}
+
+// passesWiring reports whether the run at size passes the voltage-drop,
+// ampacity and minimum-size checks.
+func passesWiring(in *Input, r *Run, size unit.Size) (measured, bool) {
+	m := measure(in, r, size)
+	min := in.Rules.MinimumSize.General
+	if r.Spec.Sheathed {
+		min = in.Rules.MinimumSize.Sheathed
+	}
+	ok := m.amp.ok && r.Current <= m.amp.derated &&
+		m.dropPct <= dropLimit(in.Rules, r.Class) &&
+		size.MM2() >= min.MM2()*(1-1e-9)
+	return m, ok
+}
+
+// SmallestPassingSize returns the smallest standard size in the run's
+// family (AWG or mm²), at least its present size, that passes every wiring
+// check, and false when none does.
+func SmallestPassingSize(in *Input, r *Run) (unit.Size, measured, bool) {
+	for _, s := range standardSizes(r.Spec.Size) {
+		if s.MM2() < r.Spec.Size.MM2()*(1-1e-9) {
+			continue
+		}
+		if m, ok := passesWiring(in, r, s); ok {
+			return s, m, true
+		}
+	}
+	return unit.Size{}, measured{}, false
+}
+
+// standardSizes lists the standard sizes of a conductor's family, thin to
+// thick.
+func standardSizes(like unit.Size) []unit.Size {
+	var out []unit.Size
+	if _, ok := like.AWG(); ok {
+		for _, g := range unit.StandardAWG() {
+			if q, err := unit.ParseAs(unit.AWGName(g), unit.DimSize); err == nil {
+				out = append(out, unit.Size{Quantity: q})
+			}
+		}
+		return out
+	}
+	for _, a := range unit.StandardMetric() {
+		if q, err := unit.ParseAs(fmt.Sprintf("%g mm²", a), unit.DimSize); err == nil {
+			out = append(out, unit.Size{Quantity: q})
+		}
+	}
+	return out
+}
+
+// changeFor says what to change on a run that fails a wiring check: the
+// smallest passing size and the protection rating that then fits.
+func changeFor(in *Input, r *Run) string {
+	s, m, ok := SmallestPassingSize(in, r)
+	if !ok {
+		return fmt.Sprintf("no standard %s size passes: shorten the run, split the load, or raise the system voltage", r.Spec.Size.Family())
+	}
+	if s.MM2() <= r.Spec.Size.MM2()*(1+1e-9) {
+		return ""
+	}
+	msg := fmt.Sprintf("use %s: drop %.2f %% (limit %g %%), %s allowed", s.String(), m.dropPct, dropLimit(in.Rules, r.Class), amps(m.amp.derated))
+	if rating, ok := fittingRating(in, r.Current, m.amp.derated); ok && (r.Spec.Protection != nil || r.Up == "bank") {
+		msg += fmt.Sprintf(", protected at %g A", rating)
+	}
+	return msg
+}
+
+// fittingRating is the smallest standard device rating at least the
+// design current and at most the rulebook's ratio × ampacity.
+func fittingRating(in *Input, current, ampacity float64) (float64, bool) {
+	p := in.Rules.Protection
+	for _, rating := range p.StandardRatings {
+		if rating >= current && rating <= p.Ratio*ampacity {
+			return rating, true
+		}
+	}
+	return 0, false
+}
+
+// sourced is a rulebook table's source with its caveat.
+func sourced(s schema.Sourced) string {
+	if c := s.Caveat(); c != "" {
+		return s.Source + " (" + c + ")"
+	}
+	return s.Source
+}
