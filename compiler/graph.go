@@ -59,10 +59,10 @@ func buildNetwork(d *Design) (*checks.Network, ErrorList) {
 type graph struct {
 	d    *Design
 	net  *checks.Network
-	kind map[string]string           // node name → bank, bus, array, controller, inverter, load
-	adj  map[string][]*checks.Run    // node name → runs ending there
+	kind map[string]string             // node name → bank, bus, array, controller, inverter, load
+	adj  map[string][]*checks.Run      // node name → runs ending there
 	kids map[*checks.Run][]*checks.Run // run → runs continuing from its Down end
-	feed map[*checks.Run][]string    // run → loads whose circuit it is
+	feed map[*checks.Run][]string      // run → loads whose circuit it is
 	errs ErrorList
 }
 
