@@ -62,6 +62,10 @@ var All = []*Check{
 	Distance,
 	Interrupting,
 	StringFuse,
+	EnergyBudget,
+	Autonomy,
+	ChargeRate,
+	ColdCharge,
 }
 
 // Lookup returns the check with the given ID.

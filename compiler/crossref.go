@@ -64,7 +64,7 @@ func (c *validator) crossCheck() {
 	// end at. A name used in two places would make a conductor ambiguous.
 	nodes := []string{"bank"}
 	owner := map[string]string{"bank": "bank"}
-	for _, group := range []string{"buses", "arrays", "controllers", "inverters", "loads"} {
+	for _, group := range []string{"buses", "arrays", "controllers", "chargers", "inverters", "loads"} {
 		for _, n := range c.keys(group) {
 			if first, dup := owner[n]; dup {
 				p := cue.MakePath(cue.Str(group), cue.Str(n))
@@ -77,15 +77,23 @@ func (c *validator) crossCheck() {
 	}
 	for _, name := range wiring {
 		base := cue.MakePath(cue.Str("wiring"), cue.Str(name))
-		c.refNoun(base, "from", "node", "bank, a bus, array, controller, inverter or load", nodes)
-		c.refNoun(base, "to", "node", "bank, a bus, array, controller, inverter or load", nodes)
+		c.refNoun(base, "from", "node", "bank, a bus, array, controller, charger, inverter or load", nodes)
+		c.refNoun(base, "to", "node", "bank, a bus, array, controller, charger, inverter or load", nodes)
 		from, _ := c.root.LookupPath(appendPath(base, "from")).String()
 		to, _ := c.root.LookupPath(appendPath(base, "to")).String()
 		if from != "" && from == to {
 			c.errs.Add(c.dataPos(appendPath(base, "to")), appendPath(base, "to").String(), "the conductor runs from %q to itself", from)
 		}
 	}
-	for _, group := range []string{"scenarios", "loads", "wiring", "buses", "arrays", "controllers", "inverters"} {
+	for _, name := range c.keys("chargers") {
+		for _, s := range c.keysAt(cue.MakePath(cue.Str("chargers"), cue.Str(name), cue.Str("hours"))) {
+			if !contains(scenarios, s) {
+				p := cue.MakePath(cue.Str("chargers"), cue.Str(name), cue.Str("hours"), cue.Str(s))
+				c.errs.Add(c.dataPos(p), p.String(), "unknown scenario %q%s", s, suggest(s, scenarios))
+			}
+		}
+	}
+	for _, group := range []string{"scenarios", "loads", "wiring", "buses", "arrays", "controllers", "chargers", "inverters"} {
 		c.similarNames(group)
 	}
 }

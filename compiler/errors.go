@@ -136,12 +136,14 @@ func isSchemaPos(p token.Pos) bool {
 }
 
 // designPos picks the first position that is the design's own from ps,
-// the rest becoming related positions.
+// the rest becoming related positions. Positions in the embedded schema
+// are left out: there is no file a user could open at them (a vendored
+// copy's positions are kept).
 func designPos(ps []token.Pos) (token.Pos, []token.Pos) {
 	var first token.Pos
 	var rest []token.Pos
 	for _, p := range ps {
-		if !p.IsValid() {
+		if !p.IsValid() || strings.HasPrefix(p.Filename(), schema.FilePrefix) {
 			continue
 		}
 		if !first.IsValid() && !isSchemaPos(p) {

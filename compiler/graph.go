@@ -30,6 +30,9 @@ func buildNetwork(d *Design) (*checks.Network, ErrorList) {
 	for _, n := range schema.Names(s.Inverters) {
 		g.kind[n] = "inverter"
 	}
+	for _, n := range schema.Names(s.Chargers) {
+		g.kind[n] = "charger"
+	}
 	for _, n := range schema.Names(s.Loads) {
 		g.kind[n] = "load"
 	}
@@ -117,7 +120,7 @@ func (g *graph) orient() {
 			g.fail(r.Path, "the run from %q to %q has no path to the bank", r.Spec.From, r.Spec.To)
 		}
 	}
-	for _, kind := range []string{"array", "controller", "inverter"} {
+	for _, kind := range []string{"array", "controller", "charger", "inverter"} {
 		for _, n := range sortedKeys(g.kind) {
 			if g.kind[n] == kind {
 				if _, ok := reached[n]; !ok {
@@ -155,7 +158,7 @@ func (g *graph) attach() {
 			g.fail(r.Path, "the run ends at load %q, whose circuit is %q", r.Down, s.Loads[r.Down].Circuit)
 		}
 		switch g.kind[r.Down] {
-		case "load", "array", "controller", "inverter":
+		case "load", "array", "controller", "charger", "inverter":
 			continue
 		}
 		if len(g.kids[r]) == 0 && len(g.feed[r]) == 0 {
@@ -196,7 +199,7 @@ func (g *graph) roles() {
 				break
 			}
 		}
-		if r.Role == checks.Supply && g.kind[r.Down] == "controller" {
+		if k := g.kind[r.Down]; r.Role == checks.Supply && (k == "controller" || k == "charger") {
 			r.Role = checks.Charge
 		}
 	}
@@ -249,6 +252,8 @@ func (g *graph) currents() {
 				if r.Role != checks.PV {
 					charge += s.Controllers[n].Part.Output.Amps()
 				}
+			case "charger":
+				charge += s.Chargers[n].Output.Amps()
 			case "array":
 				a := s.Arrays[n]
 				r.Strings += a.Strings
@@ -278,7 +283,7 @@ func (g *graph) currents() {
 			r.Basis = fmt.Sprintf("%g × Isc %s × %d string(s) (%s)", f, amps(r.Isc), r.Strings, rules.PV.Source)
 		case charge > loads:
 			r.Current = charge
-			r.Basis = fmt.Sprintf("controller rated output %s", amps(charge))
+			r.Basis = fmt.Sprintf("charge sources' rated output %s", amps(charge))
 		default:
 			r.Current = loads
 			if len(terms) == 0 {

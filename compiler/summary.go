@@ -26,6 +26,7 @@ func Compile(dir string) (*result.Result, *Design, error) {
 	r.Checks, figures = checks.RunAll(checks.All, in)
 	r.Figures = append(r.Figures, figures...)
 	r.Wiring = wiringTable(net, r)
+	r.Budget = budgetTable(d)
 	return r, d, nil
 }
 
@@ -189,3 +190,24 @@ func wiringTable(net *checks.Network, r *result.Result) []result.WiringLine {
 }
 
 func round3(x float64) float64 { return math.Round(x*1000) / 1000 }
+
+// budgetTable is the energy budget of each scenario, for reports.
+func budgetTable(d *Design) []result.ScenarioBudget {
+	var out []result.ScenarioBudget
+	for _, se := range checks.Budget(d.Spec) {
+		sb := result.ScenarioBudget{
+			Scenario: se.Name, Hours: se.Hours, Wh: round3(se.Wh), Ah: round3(se.Ah),
+			WhPerDay: round3(se.WhPerDay), MeanCurrent: round3(se.MeanCurrent),
+			Loads: []result.LoadBudget{},
+		}
+		for _, l := range se.Loads {
+			share := 0.0
+			if se.Wh > 0 {
+				share = l.Wh / se.Wh * 100
+			}
+			sb.Loads = append(sb.Loads, result.LoadBudget{Name: l.Name, Wh: round3(l.Wh), Share: math.Round(share*10) / 10, Formula: l.Formula})
+		}
+		out = append(out, sb)
+	}
+	return out
+}

@@ -47,6 +47,8 @@ type Result struct {
 	Checks []Finding `json:"checks"`
 	// Wiring is one line per conductor run with its wiring figures.
 	Wiring []WiringLine `json:"wiring"`
+	// Budget is the energy budget of each scenario.
+	Budget []ScenarioBudget `json:"budget"`
 	// Problems are input errors; a Result with problems has no figures.
 	Problems []Problem `json:"problems,omitempty"`
 }
@@ -119,6 +121,27 @@ type CircuitLine struct {
 	Length     string `json:"length"`
 	Size       string `json:"size"`
 	Protection string `json:"protection,omitempty"`
+}
+
+// ScenarioBudget is the energy one period of a scenario draws from the bank.
+type ScenarioBudget struct {
+	Scenario string  `json:"scenario"`
+	Hours    float64 `json:"hours"`
+	Wh       float64 `json:"wh"`
+	Ah       float64 `json:"ah"`
+	WhPerDay float64 `json:"whPerDay"`
+	// MeanCurrent is the mean current from the bank, A.
+	MeanCurrent float64 `json:"meanCurrent"`
+	// Loads are largest first.
+	Loads []LoadBudget `json:"loads"`
+}
+
+// LoadBudget is one load's share of a scenario's energy.
+type LoadBudget struct {
+	Name    string  `json:"name"`
+	Wh      float64 `json:"wh"`
+	Share   float64 `json:"share"` // percent of the scenario's energy
+	Formula string  `json:"formula"`
 }
 
 // WiringLine is one conductor run of the wiring schedule.

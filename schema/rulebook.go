@@ -6,20 +6,22 @@ import "github.com/ampwright/ampwright/schema/unit"
 // its source. Field names follow #Rulebook in cue/rulebook.cue. A nil table
 // is one the design's rulebook does not give.
 type Rulebook struct {
-	Name             string           `json:"name,omitempty"`
-	Edition          string           `json:"edition,omitempty"`
-	VoltageDrop      *VoltageDropRule `json:"voltageDrop,omitempty"`
-	Resistance       *ResistanceRule  `json:"resistance,omitempty"`
-	Ampacity         *AmpacityRule    `json:"ampacity,omitempty"`
-	EngineSpace      *EngineSpaceRule `json:"engineSpace,omitempty"`
-	Bundling         *BundlingRule    `json:"bundling,omitempty"`
-	Protection       *ProtectionRule  `json:"protection,omitempty"`
-	MinimumSize      *MinimumSizeRule `json:"minimumSize,omitempty"`
-	PV               *PVRule          `json:"pv,omitempty"`
-	VocFactor        *VocFactorRule   `json:"vocFactor,omitempty"`
-	DepthOfDischarge *DepthRule       `json:"depthOfDischarge,omitempty"`
-	ChargeRate       *ChargeRateRule  `json:"chargeRate,omitempty"`
-	BOM              *BOMRule         `json:"bom,omitempty"`
+	Name             string            `json:"name,omitempty"`
+	Edition          string            `json:"edition,omitempty"`
+	VoltageDrop      *VoltageDropRule  `json:"voltageDrop,omitempty"`
+	Resistance       *ResistanceRule   `json:"resistance,omitempty"`
+	Ampacity         *AmpacityRule     `json:"ampacity,omitempty"`
+	EngineSpace      *EngineSpaceRule  `json:"engineSpace,omitempty"`
+	Bundling         *BundlingRule     `json:"bundling,omitempty"`
+	Protection       *ProtectionRule   `json:"protection,omitempty"`
+	MinimumSize      *MinimumSizeRule  `json:"minimumSize,omitempty"`
+	PV               *PVRule           `json:"pv,omitempty"`
+	VocFactor        *VocFactorRule    `json:"vocFactor,omitempty"`
+	DepthOfDischarge *DepthRule        `json:"depthOfDischarge,omitempty"`
+	ChargeRate       *ChargeRateRule   `json:"chargeRate,omitempty"`
+	CapacityTemp     *CapacityTempRule `json:"capacityTemperature,omitempty"`
+	Charging         *ChargingRule     `json:"charging,omitempty"`
+	BOM              *BOMRule          `json:"bom,omitempty"`
 }
 
 // Sourced is where a rulebook table comes from.
@@ -145,6 +147,22 @@ type ChargeRateRule struct {
 	LeadAcidMax float64 `json:"leadAcidMax"`
 }
 
+// CapacityTempRule is the lead-acid sizing factor by temperature.
+type CapacityTempRule struct {
+	Sourced
+	Rows []VocRow `json:"rows"`
+}
+
+// ChargingRule is the charge model of the simulation.
+type ChargingRule struct {
+	Sourced
+	LeadAcidEfficiency float64 `json:"leadAcidEfficiency"`
+	LiFePO4Efficiency  float64 `json:"lifepo4Efficiency"`
+	TaperFrom          float64 `json:"taperFrom"`
+	TaperEnd           float64 `json:"taperEnd"`
+	ChargeVoltage      float64 `json:"chargeVoltage"`
+}
+
 // BOMRule holds bill-of-materials allowances.
 type BOMRule struct {
 	Sourced
@@ -176,6 +194,8 @@ func (r Rulebook) Over(o *Rulebook) Rulebook {
 	pick(&r.DepthOfDischarge, o.DepthOfDischarge)
 	pick(&r.ChargeRate, o.ChargeRate)
 	pick(&r.BOM, o.BOM)
+	pick(&r.CapacityTemp, o.CapacityTemp)
+	pick(&r.Charging, o.Charging)
 	return r
 }
 

@@ -21,6 +21,7 @@ type Design struct {
 	Bank        Bank                  `json:"bank"`
 	Arrays      map[string]Array      `json:"arrays,omitempty"`
 	Controllers map[string]Controller `json:"controllers,omitempty"`
+	Chargers    map[string]Charger    `json:"chargers,omitempty"`
 	Buses       map[string]Bus        `json:"buses,omitempty"`
 	Wiring      map[string]Conductor  `json:"wiring"`
 	Rules       *Rulebook             `json:"rules,omitempty"`
@@ -52,16 +53,17 @@ func (v Vessel) SystemVolts() float64 {
 
 // Site is the cruising ground and its climate.
 type Site struct {
-	Name        string           `json:"name,omitempty"`
-	Latitude    float64          `json:"latitude"`
-	Longitude   float64          `json:"longitude"`
-	Months      []string         `json:"months"`
-	Irradiation Irradiation      `json:"irradiation"`
-	RecordLow   unit.Temperature `json:"recordLow"`
-	DesignHigh  unit.Temperature `json:"designHigh"`
-	EngineSpace unit.Temperature `json:"engineSpace"`
-	Albedo      float64          `json:"albedo"`
-	WindSpeed   float64          `json:"windSpeed"`
+	Name        string                      `json:"name,omitempty"`
+	Latitude    float64                     `json:"latitude"`
+	Longitude   float64                     `json:"longitude"`
+	Months      []string                    `json:"months"`
+	Irradiation Irradiation                 `json:"irradiation"`
+	DayAmbient  map[string]unit.Temperature `json:"dayAmbient,omitempty"`
+	RecordLow   unit.Temperature            `json:"recordLow"`
+	DesignHigh  unit.Temperature            `json:"designHigh"`
+	EngineSpace unit.Temperature            `json:"engineSpace"`
+	Albedo      float64                     `json:"albedo"`
+	WindSpeed   float64                     `json:"windSpeed"`
 }
 
 // Irradiation is the designer's mean daily horizontal irradiation by month
@@ -126,8 +128,9 @@ type Load struct {
 
 // Inverter feeds AC loads.
 type Inverter struct {
-	Part    InverterPart `json:"part"`
-	Circuit string       `json:"circuit"`
+	Part    InverterPart       `json:"part"`
+	Circuit string             `json:"circuit"`
+	Hours   map[string]float64 `json:"hours,omitempty"`
 }
 
 // Voyage is the design voyage.
@@ -178,6 +181,25 @@ type Array struct {
 // Controller is a charge controller fitted to the boat.
 type Controller struct {
 	Part ControllerPart `json:"part"`
+}
+
+// Charger is a charge source other than solar.
+type Charger struct {
+	Kind        string             `json:"kind"`
+	Output      unit.Current       `json:"output"`
+	Hours       map[string]float64 `json:"hours,omitempty"`
+	Description string             `json:"description,omitempty"`
+}
+
+// ChargeHours is how long the charger runs in one period of scenario s.
+func (c Charger) ChargeHours(s string, sc Scenario) float64 {
+	if h, ok := c.Hours[s]; ok {
+		return h
+	}
+	if c.Kind == "alternator" {
+		return sc.EngineHours
+	}
+	return 0
 }
 
 // Bus is a junction in the wiring.
