@@ -22,6 +22,17 @@ type Input struct {
 	Position func(path string) string
 	// Network is the wiring as a tree from the bank.
 	Network *Network
+
+	harvest []ArrayHarvest // memo of Harvest
+	sim     *voyageRun     // memo of the voyage simulation
+}
+
+// Harvest returns the arrays' harvest, computed once per Input.
+func (in *Input) Harvest() []ArrayHarvest {
+	if in.harvest == nil {
+		in.harvest = Harvest(in)
+	}
+	return in.harvest
 }
 
 // Report collects what checks find.
@@ -66,6 +77,11 @@ var All = []*Check{
 	Autonomy,
 	ChargeRate,
 	ColdCharge,
+	EnergyHarvest,
+	ColdVoc,
+	HotVmp,
+	InputCurrent,
+	VoyageFloor,
 }
 
 // Lookup returns the check with the given ID.

@@ -280,8 +280,9 @@ var ChargeRate = &Check{
 	Doc: `Checks the largest charge current the controllers can deliver against
 what the bank accepts.
 
-Method: I_charge = Σ rated output of the solar controllers and the other
-chargers (alternator, shore charger, generator, DC-DC). For lead-acid, as a fraction
+Method: I_charge is the largest current the sources give together in any
+scenario: the solar controllers' rated output plus every other charger
+(alternator, shore charger, generator, DC-DC) that runs in that scenario. For lead-acid, as a fraction
 of the bank's rated capacity, I_charge / C_bank, against the rulebook's
 bounds (default 10–30 % of C, common practice): above the upper bound
 fails (gassing, heat); below the lower bound warns (a bank charged that
@@ -290,19 +291,32 @@ LiFePO4, I_charge against N_parallel × the battery's maximum charge current
 from its data.`,
 	Run: func(in *Input, out *Report) {
 		d := in.Design
-		var ic float64
+		var solarOut float64
 		for _, n := range schema.Names(d.Controllers) {
-			ic += d.Controllers[n].Part.Output.Amps()
+			solarOut += d.Controllers[n].Part.Output.Amps()
 		}
-		for _, n := range schema.Names(d.Chargers) {
-			ic += d.Chargers[n].Output.Amps()
+		// The largest current the sources give together in any scenario.
+		ic, worst := solarOut, ""
+		for _, sn := range schema.Names(d.Scenarios) {
+			i := solarOut
+			for _, n := range schema.Names(d.Chargers) {
+				if d.Chargers[n].ChargeHours(sn, d.Scenarios[sn]) > 0 {
+					i += d.Chargers[n].Output.Amps()
+				}
+			}
+			if i > ic {
+				ic, worst = i, sn
+			}
 		}
 		if ic == 0 {
 			return
 		}
 		capBank := d.Bank.Battery.Capacity.Ah() * float64(d.Bank.Parallel)
 		f := result.Finding{Subject: "bank", Position: in.Position("bank"), Status: result.Pass}
-		from := "the charge sources"
+		from := "the solar controllers"
+		if worst != "" {
+			from = "the sources charging together in " + worst
+		}
 		if d.Bank.Battery.LeadAcid() {
 			cr := in.Rules.ChargeRate
 			frac := ic / capBank

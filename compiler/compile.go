@@ -26,6 +26,7 @@ import (
 	"cuelang.org/go/cue/cuecontext"
 	"cuelang.org/go/cue/token"
 
+	"github.com/ampwright/ampwright/checks"
 	"github.com/ampwright/ampwright/schema"
 )
 
@@ -101,6 +102,9 @@ func Load(dir string) (*Design, error) {
 	if err := sch.LookupPath(schema.DefaultPath).Decode(&rules); err != nil {
 		return nil, fmt.Errorf("internal error: the default rulebook does not decode: %v", err)
 	}
+	if errs := irradiationBounds(v, &spec); len(errs) > 0 {
+		return nil, errs.Err()
+	}
 	d := &Design{
 		Dir:   dir,
 		Root:  root,
@@ -127,4 +131,29 @@ func entryPositions(c *validator) map[string]token.Pos {
 		out[p.String()] = c.dataPos(p)
 	}
 	return out
+}
+
+// irradiationBounds rejects a month's irradiation above the clear-sky
+// value for the site: no month's mean can exceed a cloudless sky's.
+func irradiationBounds(v *validator, s *schema.Design) ErrorList {
+	var errs ErrorList
+	for _, m := range schema.Names(s.Site.Irradiation.Monthly) {
+		mi := -1
+		for i, x := range checks.Months {
+			if x == m {
+				mi = i
+			}
+		}
+		if mi < 0 {
+			continue
+		}
+		h := s.Site.Irradiation.Monthly[m]
+		bound := checks.ClearSkyBound(s.Site.Latitude, s.Site.Longitude, mi)
+		if h.KWhPerM2Day() > bound {
+			p := cue.MakePath(cue.Str("site"), cue.Str("irradiation"), cue.Str(m))
+			errs.Add(v.dataPos(p), p.String(), "%q is more than a clear sky gives at latitude %g in %s (%.2f kWh/m²/day, Haurwitz model on the month's average day); check the data source %q",
+				h.Text, s.Site.Latitude, m, bound, s.Site.Irradiation.Source)
+		}
+	}
+	return errs
 }

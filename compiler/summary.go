@@ -27,6 +27,8 @@ func Compile(dir string) (*result.Result, *Design, error) {
 	r.Figures = append(r.Figures, figures...)
 	r.Wiring = wiringTable(net, r)
 	r.Budget = budgetTable(d)
+	r.Harvest = in.HarvestResult()
+	r.Voyage = in.VoyageResult()
 	return r, d, nil
 }
 

@@ -61,9 +61,79 @@ func Text(w io.Writer, r *result.Result) error {
 	p.section(fmt.Sprintf("Loads (%d)", len(s.Loads)))
 	t := p.table("load", "circuit", "kind", "draw", "duty", "via")
 	for _, l := range s.Loads {
-		t.row(l.Name, l.Circuit, l.Kind, l.Draw, strconv.FormatFloat(l.Duty, 'f', -1, 64), l.Inverter)
+		t.row(l.Name, orDash(l.Circuit), l.Kind, l.Draw, strconv.FormatFloat(l.Duty, 'f', -1, 64), l.Inverter)
 	}
 	t.flush()
+
+	p.section("Energy budget")
+	for _, b := range r.Budget {
+		p.line("%s: %.0f Wh per %g h (%.1f Ah, mean %.2f A, %.0f Wh per day)", b.Scenario, b.Wh, b.Hours, b.Ah, b.MeanCurrent, b.WhPerDay)
+		for i, l := range b.Loads {
+			if i == 5 {
+				p.line("    … and %d more", len(b.Loads)-5)
+				break
+			}
+			p.line("    %-22s %7.0f Wh  %4.1f %%  %s", l.Name, l.Wh, l.Share, l.Formula)
+		}
+	}
+
+	if len(r.Harvest) > 0 {
+		p.section("Solar harvest (Wh per day into the bank, mean day of the month)")
+		hdr := []string{"array", "controller"}
+		for _, m := range r.Harvest[0].Months {
+			hdr = append(hdr, m.Month)
+		}
+		t = p.table(hdr...)
+		for _, a := range r.Harvest {
+			row := []string{a.Array, a.Controller + " (" + strings.ToUpper(a.Kind) + ")"}
+			alt := []string{"", "with " + a.Alternative}
+			for _, m := range a.Months {
+				row = append(row, fmt.Sprintf("%.0f", m.Wh))
+				alt = append(alt, fmt.Sprintf("%.0f", m.AltWh))
+			}
+			t.row(row...)
+			t.row(alt...)
+		}
+		t.flush()
+	}
+
+	if len(r.Harvest) > 0 && len(r.Budget) > 0 {
+		p.section("Balance (solar harvest as a share of each scenario's use per day)")
+		hdr := []string{"scenario", "use/day"}
+		for _, m := range r.Harvest[0].Months {
+			hdr = append(hdr, m.Month)
+		}
+		t = p.table(hdr...)
+		for _, b := range r.Budget {
+			row := []string{b.Scenario, fmt.Sprintf("%.0f Wh", b.WhPerDay)}
+			for _, m := range r.Harvest[0].Months {
+				cell := "-"
+				for _, f := range r.Figures {
+					if f.ID == "energy.solarFraction" && f.Subject == b.Scenario+" "+m.Month {
+						cell = fmt.Sprintf("%.0f %%", f.Value)
+					}
+				}
+				row = append(row, cell)
+			}
+			t.row(row...)
+		}
+		t.flush()
+	}
+
+	if v := r.Voyage; v != nil {
+		p.section(fmt.Sprintf("Design voyage (%d days from %s)", v.Hours/24, v.Start))
+		p.line("lowest state of charge %.1f %% on day %d at %02d:00 (%s, %s); floor %.0f %%", v.Lowest, v.LowestDay+1, v.LowestHour, v.LowestScenario, v.LowestMonth, v.Floor)
+		if v.Unmet > 0 {
+			p.line("the floor is reached: %.0f Wh of load unmet", v.Unmet)
+		}
+		switch {
+		case v.RecoverDays >= 0:
+			p.line("full again %.1f days after the lowest point", v.RecoverDays)
+		case v.Lowest < 99.9:
+			p.line("not full again within the voyage")
+		}
+		p.line("energy: %.0f Wh offered by the sources, %.0f Wh stored, %.0f Wh drawn, %.0f Wh not taken, %.0f Wh charge losses", v.Offered, v.Charged, v.Drawn, v.Spilled, v.ChargeLoss)
+	}
 
 	p.section(fmt.Sprintf("Wiring (%d runs)", len(r.Wiring)))
 	imperial := d.Units == "imperial"

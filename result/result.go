@@ -49,6 +49,10 @@ type Result struct {
 	Wiring []WiringLine `json:"wiring"`
 	// Budget is the energy budget of each scenario.
 	Budget []ScenarioBudget `json:"budget"`
+	// Harvest is each array's mean daily harvest by month.
+	Harvest []ArrayHarvest `json:"harvest"`
+	// Voyage is the state-of-charge run over the design voyage, if any.
+	Voyage *Voyage `json:"voyage,omitempty"`
 	// Problems are input errors; a Result with problems has no figures.
 	Problems []Problem `json:"problems,omitempty"`
 }
@@ -121,6 +125,59 @@ type CircuitLine struct {
 	Length     string `json:"length"`
 	Size       string `json:"size"`
 	Protection string `json:"protection,omitempty"`
+}
+
+// ArrayHarvest is one array's harvest by month.
+type ArrayHarvest struct {
+	Array      string `json:"array"`
+	Controller string `json:"controller"`
+	Kind       string `json:"kind"`
+	// Alternative names the other controller kind, whose figure is AltWh.
+	Alternative string         `json:"alternative"`
+	Months      []MonthHarvest `json:"months"`
+}
+
+// MonthHarvest is an array's mean day in one month.
+type MonthHarvest struct {
+	Month string `json:"month"`
+	// Irradiation is the designer's daily horizontal value and POA the
+	// daily value on the array, kWh/m²/day.
+	Irradiation float64 `json:"irradiation"`
+	POA         float64 `json:"poa"`
+	// Wh is delivered into the bank per day; AltWh with the other
+	// controller kind; Clipped lost to the controller's output limit.
+	Wh      float64 `json:"wh"`
+	AltWh   float64 `json:"altWh"`
+	Clipped float64 `json:"clipped"`
+	// PeakCell is the day's highest cell temperature, °C.
+	PeakCell float64 `json:"peakCell"`
+}
+
+// Voyage is the state-of-charge run over the design voyage.
+type Voyage struct {
+	Start string `json:"start"`
+	Hours int    `json:"hours"`
+	// Lowest is the lowest state of charge, percent of full, on day
+	// LowestDay (from 0) at LowestHour.
+	Lowest         float64 `json:"lowest"`
+	LowestDay      int     `json:"lowestDay"`
+	LowestHour     int     `json:"lowestHour"`
+	LowestScenario string  `json:"lowestScenario"`
+	LowestMonth    string  `json:"lowestMonth"`
+	// Floor is the depth-of-discharge floor, percent of full.
+	Floor float64 `json:"floor"`
+	// Unmet is the load energy below the floor, Wh.
+	Unmet float64 `json:"unmet"`
+	// RecoverDays is the days from the lowest point to full, −1 if never.
+	RecoverDays float64 `json:"recoverDays"`
+	// The energy ledger, Wh.
+	Offered    float64 `json:"offered"`
+	Charged    float64 `json:"charged"`
+	Drawn      float64 `json:"drawn"`
+	Spilled    float64 `json:"spilled"`
+	ChargeLoss float64 `json:"chargeLoss"`
+	// SoC is the state of charge at the end of each hour, percent.
+	SoC []float64 `json:"soc"`
 }
 
 // ScenarioBudget is the energy one period of a scenario draws from the bank.

@@ -1,0 +1,182 @@
+package checks
+
+import (
+	"fmt"
+
+	"github.com/ampwright/ampwright/checks/solar"
+	"github.com/ampwright/ampwright/result"
+	"github.com/ampwright/ampwright/schema"
+)
+
+// ColdVoc checks the strings' open-circuit voltage at the record low.
+var ColdVoc = &Check{
+	ID:    "pv.coldVoc",
+	Title: "string open-circuit voltage at the record low within the controller's maximum",
+	Doc: `Checks that a string's open-circuit voltage on the coldest morning stays
+within the controller's maximum PV voltage.
+
+Method (NEC 690.7, temperature-coefficient method), with the cells at the
+record low ambient temperature at first light:
+
+    Voc_max = N_series × Voc × (1 + βVoc × (T_min − 25 °C))
+
+Where the module gives no βVoc, the rulebook's low-temperature factor table
+is used: Voc_max = N_series × Voc × factor(T_min) (NEC Table 690.7(A)).
+
+Limit: the controller's maximum PV input voltage (maker's data). Above it,
+the controller can be destroyed.`,
+	Run: func(in *Input, out *Report) {
+		d := in.Design
+		tmin := d.Site.RecordLow.Celsius()
+		for _, name := range schema.Names(d.Arrays) {
+			a := d.Arrays[name]
+			ctrl := d.Controllers[a.Controller].Part
+			voc := a.Module.Voc.Volts()
+			ns := float64(a.Series)
+			var vmax float64
+			var how, source string
+			if b := a.Module.BetaVoc; b != nil {
+				vmax = ns * voc * (1 + b.PerKelvin()*(tmin-25))
+				how = fmt.Sprintf("%d × %s × (1 + %s × (%s − 25 °C))", a.Series, a.Module.Voc.Text, b.Text, d.Site.RecordLow.Text)
+				source = "NEC 690.7, temperature-coefficient method (from memory; verify against the edition you work to)"
+			} else {
+				f := rowFactor(in.Rules.VocFactor.Rows, tmin)
+				vmax = ns * voc * f
+				how = fmt.Sprintf("%d × %s × %g (table factor at %s)", a.Series, a.Module.Voc.Text, f, d.Site.RecordLow.Text)
+				source = sourced(in.Rules.VocFactor.Sourced)
+			}
+			lim := ctrl.MaxPVVoltage.Volts()
+			out.Figure(result.Figure{
+				ID: "pv.coldVoc", Subject: name, Value: round(vmax, 2), Unit: "V",
+				Formula: "Voc_max = N_series × Voc × (1 + βVoc × (T_min − 25 °C))",
+				Inputs: []result.Input{
+					{Name: "N_series", Value: ns, From: "arrays." + quotePath(name) + ".series"},
+					{Name: "Voc", Value: voc, Unit: "V", From: "catalog data for " + a.Module.ID},
+					{Name: "T_min", Value: tmin, Unit: "°C", From: "site.recordLow"},
+				},
+				Source: source,
+			})
+			f := result.Finding{
+				Subject: name, Value: round(vmax, 2), Limit: lim, Unit: "V", Margin: round(lim-vmax, 2),
+				Source: source, Position: in.Position("arrays." + quotePath(name)), Status: result.Pass,
+				Message: fmt.Sprintf("%s = %s against %s's maximum %s", how, volts(vmax), ctrl.ID, ctrl.MaxPVVoltage.Text),
+			}
+			if vmax > lim {
+				f.Status = result.Fail
+				if n := int(lim / (vmax / ns)); n >= 1 {
+					f.Change = fmt.Sprintf("at most %d modules in series, or a controller rated above %s", n, volts(vmax))
+				}
+			}
+			out.Add(f)
+		}
+	},
+}
+
+// HotVmp checks an MPPT array's voltage stays above the charging voltage
+// when hot.
+var HotVmp = &Check{
+	ID:    "pv.hotVmp",
+	Title: "string Vmp when hot above the charging voltage plus the controller's headroom",
+	Doc: `Checks that an MPPT controller can still charge on the hottest day: the
+string's maximum-power voltage at its hottest must exceed the bank's
+charging voltage plus the controller's start headroom.
+
+Method: the cell temperature at 1000 W/m² and the design high ambient
+(NOCT or Sandia, as in energy.harvest), and
+
+    Vmp_hot = N_series × Vmp × (1 + βVoc × (T_cell − 25 °C))
+
+using the Voc coefficient for Vmp, as is common practice where the
+datasheet gives none for Vmp (the Vmp coefficient is somewhat larger, so
+the margin should not be thin). Where βVoc is not given, the Pmax
+coefficient is used.
+
+Limit: V_charge + headroom, V_charge the battery's absorption voltage ×
+series (or the rulebook's multiple of nominal). PWM controllers are not
+checked: they hold the array at battery voltage.`,
+	Run: func(in *Input, out *Report) {
+		d := in.Design
+		vcharge := chargeVoltage(d, in.Rules)
+		for _, name := range schema.Names(d.Arrays) {
+			a := d.Arrays[name]
+			ctrl := d.Controllers[a.Controller].Part
+			if ctrl.Kind != "mppt" {
+				continue
+			}
+			ta := d.Site.DesignHigh.Celsius()
+			var tc float64
+			var model string
+			if n := a.Module.NOCT; n != nil {
+				tc = solar.CellTempNOCT(1000, ta, n.Celsius())
+				model = "NOCT " + n.Text
+			} else {
+				p, m := sandiaFor(a.Module.Construction, a.Mount)
+				tc = solar.SandiaCellTemp(1000, ta, d.Site.WindSpeed, p.A, p.B, p.DeltaT)
+				model = m
+			}
+			coeff := a.Module.GammaPmax.PerKelvin()
+			if a.Module.BetaVoc != nil {
+				coeff = a.Module.BetaVoc.PerKelvin()
+			}
+			vmp := float64(a.Series) * a.Module.Vmp.Volts() * (1 + coeff*(tc-25))
+			lim := vcharge + ctrl.Headroom.Volts()
+			f := result.Finding{
+				Subject: name, Value: round(vmp, 2), Limit: round(lim, 2), Unit: "V", Margin: round(vmp-lim, 2),
+				Source:   "common practice (Voc coefficient for Vmp); cell temperature by " + model,
+				Position: in.Position("arrays." + quotePath(name)), Status: result.Pass,
+				Message: fmt.Sprintf("%d × %s at %.0f °C cells (%s ambient) = %s against charging %s + headroom %s",
+					a.Series, a.Module.Vmp.Text, tc, d.Site.DesignHigh.Text, volts(vmp), volts(vcharge), ctrl.Headroom.Text),
+			}
+			if vmp < lim {
+				f.Status = result.Fail
+				f.Change = "more modules in series, so the hot string voltage clears the charging voltage"
+			}
+			out.Add(f)
+		}
+	},
+}
+
+// InputCurrent checks the controller's PV input current.
+var InputCurrent = &Check{
+	ID:    "pv.inputCurrent",
+	Title: "PV input current within the controller's rating",
+	Doc: `Checks the array's maximum current against the controller's PV input
+rating.
+
+Method (NEC 690.8(A)(1)): I_max = inputFactor × Isc × N_strings, the
+rulebook's inputFactor being 1.25 by default. Where several arrays feed one
+controller their currents add.
+
+Limit: the controller's maximum PV input current (maker's data). A
+controller whose catalog entry gives none is reported as a warning.`,
+	Run: func(in *Input, out *Report) {
+		d := in.Design
+		pv := in.Rules.PV
+		per := map[string]float64{}
+		for _, name := range schema.Names(d.Arrays) {
+			a := d.Arrays[name]
+			per[a.Controller] += pv.InputFactor * a.Module.Isc.Amps() * float64(a.Strings)
+		}
+		for _, cn := range schema.Names(per) {
+			ctrl := d.Controllers[cn].Part
+			i := per[cn]
+			f := result.Finding{
+				Subject: cn, Value: round(i, 2), Unit: "A", Source: sourced(pv.Sourced),
+				Position: in.Position("controllers." + quotePath(cn)), Status: result.Pass,
+			}
+			if ctrl.MaxPVCurrent == nil {
+				f.Status = result.Warn
+				f.Message = fmt.Sprintf("%s from the arrays; the catalog gives no PV input rating for %s", amps(i), ctrl.ID)
+			} else {
+				lim := ctrl.MaxPVCurrent.Amps()
+				f.Limit, f.Margin = lim, round(lim-i, 2)
+				f.Message = fmt.Sprintf("%g × Isc × strings = %s against %s's %s", pv.InputFactor, amps(i), ctrl.ID, ctrl.MaxPVCurrent.Text)
+				if i > lim {
+					f.Status = result.Fail
+					f.Change = "fewer strings on this controller, or a controller with a larger PV input rating"
+				}
+			}
+			out.Add(f)
+		}
+	},
+}
