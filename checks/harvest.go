@@ -39,6 +39,26 @@ func ClearSkyBound(lat, lon float64, month int) float64 {
 	return solar.ClearSkyDaily(lat, lon, 2025, time.Month(month+1), meanDay[month]) / 1000
 }
 
+// STC are the standard test conditions of a module's rating: 1000 W/m² at
+// 25 °C cell temperature (IEC 61215; common practice).
+const (
+	STCIrradiance  = 1000.0
+	STCTemperature = 25.0
+)
+
+// ModuleEfficiency is a module's efficiency at STC:
+// η = Pmax / (length × width × 1000 W/m²).
+func ModuleEfficiency(m schema.Module) float64 {
+	return m.Pmax.Watts() / (m.LengthDim.Metres() * m.WidthDim.Metres() * STCIrradiance)
+}
+
+// TemperatureFactor is the fraction of STC power a module gives at cell
+// temperature tc with power coefficient gamma (per kelvin):
+// 1 + γ × (Tc − 25 °C).
+func TemperatureFactor(gamma, tc float64) float64 {
+	return 1 + gamma*(tc-STCTemperature)
+}
+
 // ArrayMonth is one array's mean day in one month.
 type ArrayMonth struct {
 	Month string
@@ -201,7 +221,7 @@ func arrayDay(in *Input, a schema.Array, ctrl schema.ControllerPart, month int, 
 		}
 		mine.PeakCell = math.Max(mine.PeakCell, tc)
 		// MPPT: the array's maximum power at this irradiance and temperature.
-		pm := pstc * g / 1000 * (1 + gamma*(tc-25)) * loss
+		pm := pstc * g / STCIrradiance * TemperatureFactor(gamma, tc) * loss
 		mppt := pm * (1 - pvDrop*g/1000) * ctrl.Efficiency * (1 - chargeDrop*g/1000)
 		// PWM: the strings' current, near Isc, at the charging voltage.
 		ipv := mod.Isc.Amps() * float64(a.Strings) * g / 1000 * (1 + alpha*(tc-25)) * loss

@@ -102,7 +102,7 @@ func Load(dir string) (*Design, error) {
 	if err := sch.LookupPath(schema.DefaultPath).Decode(&rules); err != nil {
 		return nil, fmt.Errorf("internal error: the default rulebook does not decode: %v", err)
 	}
-	if errs := irradiationBounds(v, &spec); len(errs) > 0 {
+	if errs := append(irradiationBounds(v, &spec), moduleEfficiency(v, &spec)...); len(errs) > 0 {
 		return nil, errs.Err()
 	}
 	d := &Design{
@@ -153,6 +153,27 @@ func irradiationBounds(v *validator, s *schema.Design) ErrorList {
 			p := cue.MakePath(cue.Str("site"), cue.Str("irradiation"), cue.Str(m))
 			errs.Add(v.dataPos(p), p.String(), "%q is more than a clear sky gives at latitude %g in %s (%.2f kWh/m²/day, Haurwitz model on the month's average day); check the data source %q",
 				h.Text, s.Site.Latitude, m, bound, s.Site.Irradiation.Source)
+		}
+	}
+	return errs
+}
+
+// Module efficiencies outside these bounds mean a datasheet misread: no
+// marketed crystalline or thin-film module is below 5 % or above 25 %
+// (common practice; the best cells in laboratories reach about 27 %).
+const minEfficiency, maxEfficiency = 0.05, 0.25
+
+// moduleEfficiency rejects a module whose STC power and area give an
+// implausible efficiency, η = Pmax / (length × width × 1000 W/m²).
+func moduleEfficiency(v *validator, s *schema.Design) ErrorList {
+	var errs ErrorList
+	for _, name := range schema.Names(s.Arrays) {
+		m := s.Arrays[name].Module
+		eff := checks.ModuleEfficiency(m)
+		if eff < minEfficiency || eff > maxEfficiency {
+			p := cue.MakePath(cue.Str("arrays"), cue.Str(name), cue.Str("module"), cue.Str("pmax"))
+			errs.Add(v.dataPos(p), p.String(), "%s over %s × %s is %.1f %% efficient at STC; expected %g–%g %%: check the module's power and dimensions",
+				m.Pmax.Text, m.LengthDim.Text, m.WidthDim.Text, eff*100, minEfficiency*100, maxEfficiency*100)
 		}
 	}
 	return errs

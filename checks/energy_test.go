@@ -1,0 +1,365 @@
+package checks
+
+import (
+	"fmt"
+	"math"
+	"testing"
+
+	"cuelang.org/go/cue/cuecontext"
+
+	"github.com/ampwright/ampwright/result"
+	"github.com/ampwright/ampwright/schema"
+	"github.com/ampwright/ampwright/schema/unit"
+)
+
+func defaultRules(t testing.TB) schema.Rulebook {
+	t.Helper()
+	v, err := schema.Build(cuecontext.New())
+	if err != nil {
+		t.Fatal(err)
+	}
+	var r schema.Rulebook
+	if err := v.LookupPath(schema.DefaultPath).Decode(&r); err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+func q(t testing.TB, s string, d unit.Dim) unit.Quantity {
+	t.Helper()
+	v, err := unit.ParseAs(s, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return v
+}
+
+func ptr[T any](v T) *T { return &v }
+
+// bankDesign is a bank of n parallel batteries with end of life 1, at
+// 25 °C, for the trade-fact checks.
+func bankDesign(t testing.TB, chemistry, volts, ah string, parallel int, dod float64) *schema.Design {
+	return &schema.Design{
+		Vessel: schema.Vessel{System: "12 V"},
+		Bank: schema.Bank{
+			Series: 1, Parallel: parallel, EndOfLife: 1,
+			Temperature:      unit.Temperature{Quantity: q(t, "25 °C", unit.DimTemperature)},
+			DepthOfDischarge: ptr(dod),
+			Battery: schema.Battery{
+				Chemistry: chemistry,
+				Voltage:   unit.Voltage{Quantity: q(t, volts, unit.DimVoltage)},
+				Capacity:  unit.Charge{Quantity: q(t, ah, unit.DimCharge)},
+			},
+		},
+	}
+}
+
+// TestBankTradeFacts checks the bank model against the trade's arithmetic
+// (common practice check values, no source).
+func TestBankTradeFacts(t *testing.T) {
+	rules := defaultRules(t)
+	tests := []struct {
+		name        string
+		chemistry   string
+		volts, ah   string
+		parallel    int
+		dod         float64
+		nominal     float64
+		usable      float64
+		description string
+	}{
+		// Common practice: 100 Ah × 12 V = 1200 Wh.
+		{"one 100 Ah 12 V", "agm", "12 V", "100 Ah", 1, 0.5, 1200, 600, "1200 Wh nominal"},
+		// Common practice: four 100 Ah 12 V lead-acid at 50 % give 2400 Wh.
+		{"four lead-acid at 50 %", "flooded", "12 V", "100 Ah", 4, 0.5, 4800, 2400, "2400 Wh usable"},
+		// Common practice: a 100 Ah 12 V lithium battery at 85 % gives 1020 Wh.
+		{"one lithium at 85 %", "lifepo4", "12 V", "100 Ah", 1, 0.85, 1200, 1020, "1020 Wh usable"},
+		// Common practice: four of them give 4080 Wh.
+		{"four lithium at 85 %", "lifepo4", "12 V", "100 Ah", 4, 0.85, 4800, 4080, "4080 Wh usable"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			bm := Bank(bankDesign(t, tt.chemistry, tt.volts, tt.ah, tt.parallel, tt.dod), rules)
+			if math.Abs(bm.Nominal-tt.nominal) > 1e-9 {
+				t.Errorf("nominal = %v Wh, want %v", bm.Nominal, tt.nominal)
+			}
+			if math.Abs(bm.Usable-tt.usable) > 1e-9 {
+				t.Errorf("usable = %v Wh, want %v (%s)", bm.Usable, tt.usable, tt.description)
+			}
+		})
+	}
+}
+
+// TestLeadAcidTemperature checks the IEEE 485 Table 1 factor is applied as
+// available capacity = 1 / factor (from memory: 1.30 at 4.4 °C).
+func TestLeadAcidTemperature(t *testing.T) {
+	rules := defaultRules(t)
+	d := bankDesign(t, "agm", "12 V", "100 Ah", 1, 0.5)
+	d.Bank.Temperature = unit.Temperature{Quantity: q(t, "40 °F", unit.DimTemperature)} // 4.4 °C
+	bm := Bank(d, rules)
+	if want := 1 / 1.30; math.Abs(bm.TempFactor-want) > 1e-9 {
+		t.Errorf("F_temp at 40 °F = %v, want 1/1.30 = %v (IEEE 485 Table 1, from memory)", bm.TempFactor, want)
+	}
+	d.Bank.Temperature = unit.Temperature{Quantity: q(t, "35 °C", unit.DimTemperature)}
+	if got := Bank(d, rules).TempFactor; got != 1 {
+		t.Errorf("F_temp at 35 °C = %v, want 1 (extra capacity when warm is not credited)", got)
+	}
+}
+
+// TestPeukert checks the normalised form t = H × (C / (I × H))^k for
+// 100 Ah at the 20 h rate with k = 1.25 (REFERENCES.md §9, derived values),
+// and that the naive form I^k × t = C is not what is computed.
+func TestPeukert(t *testing.T) {
+	tests := []struct {
+		current, runtime, delivered float64
+	}{
+		{5, 20.0, 100}, // the 20 h rate current: exactly the rating
+		{10, 8.409, 84.09},
+		{20, 3.536, 70.71},
+		{50, 1.125, 56.23},
+	}
+	for _, tt := range tests {
+		got := PeukertRuntime(100, 20, 1.25, tt.current)
+		if math.Abs(got-tt.runtime) > 5e-4*tt.runtime {
+			t.Errorf("runtime at %g A = %.4f h, want %.4g h (derived)", tt.current, got, tt.runtime)
+		}
+		if c := PeukertCapacity(100, 20, 1.25, tt.current); math.Abs(c-tt.delivered) > 5e-4*tt.delivered {
+			t.Errorf("capacity at %g A = %.3f Ah, want %.4g Ah (derived)", tt.current, c, tt.delivered)
+		}
+	}
+	// The naive form would give 5 A for 14.5 h from 100 Ah at k = 1.2; the
+	// normalised form gives the rating, 20 h, at the 20 h current.
+	if got := PeukertRuntime(100, 20, 1.2, 5); math.Abs(got-20) > 1e-9 {
+		t.Errorf("runtime at the rated current = %v h, want 20 h", got)
+	}
+	// A lighter load than the rating's is not credited with more capacity.
+	if got := PeukertCapacity(100, 20, 1.25, 1); got != 100 {
+		t.Errorf("capacity at 1 A = %v, want 100 (not above the rating)", got)
+	}
+}
+
+// TestModuleTradeFacts: common practice check values.
+func TestModuleTradeFacts(t *testing.T) {
+	// STC is 1000 W/m² at 25 °C cell temperature.
+	if STCIrradiance != 1000 || STCTemperature != 25 {
+		t.Errorf("STC = %v W/m², %v °C; want 1000 W/m², 25 °C", STCIrradiance, STCTemperature)
+	}
+	// A 400 W module of 2 m² is 20 % efficient.
+	m := schema.Module{
+		Pmax:      unit.Power{Quantity: q(t, "400 W", unit.DimPower)},
+		LengthDim: unit.Length{Quantity: q(t, "2 m", unit.DimLength)},
+		WidthDim:  unit.Length{Quantity: q(t, "1 m", unit.DimLength)},
+	}
+	if got := ModuleEfficiency(m); math.Abs(got-0.20) > 1e-12 {
+		t.Errorf("efficiency = %v, want 0.20", got)
+	}
+	// A −0.5 %/°C coefficient loses 0.5 % of output per °C above 25 °C.
+	gamma := q(t, "-0.5 %/°C", unit.DimTempCoeff).Value
+	for _, tc := range []float64{26, 35, 45} {
+		want := 1 - 0.005*(tc-25)
+		if got := TemperatureFactor(gamma, tc); math.Abs(got-want) > 1e-12 {
+			t.Errorf("factor at %v °C = %v, want %v", tc, got, want)
+		}
+	}
+}
+
+// TestColdVoc checks the NEC 690.7 coefficient method on the worked values
+// of REFERENCES.md §7 (from memory; verify against the standard).
+func TestColdVoc(t *testing.T) {
+	rules := defaultRules(t)
+	tests := []struct {
+		name                  string
+		voc, beta, tmin       string
+		series                int
+		want                  float64
+		tolerance, controller float64
+	}{
+		// Voc 45.0 V, −0.28 %/°C, 3 °C: factor 1.0616 (from memory).
+		{"45 V at 3 °C", "45 V", "-0.28 %/°C", "3 °C", 1, 45 * 1.0616, 0.001, 600},
+		// Voc 40 V, −0.30 %/°C, −10 °C: 44.2 V a module, 11 modules 486.2 V
+		// (from memory).
+		{"11 × 40 V at −10 °C", "40 V", "-0.30 %/°C", "-10 °C", 11, 486.2, 0.001, 600},
+		// Same string on a 450 V controller: fails.
+		{"11 × 40 V on a 450 V controller", "40 V", "-0.30 %/°C", "-10 °C", 11, 486.2, 0.001, 450},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			d := &schema.Design{
+				Vessel: schema.Vessel{System: "48 V"},
+				Site:   schema.Site{RecordLow: unit.Temperature{Quantity: q(t, tt.tmin, unit.DimTemperature)}},
+				Arrays: map[string]schema.Array{"a": {
+					Series: tt.series, Strings: 1, Controller: "c",
+					Module: schema.Module{
+						Voc:     unit.Voltage{Quantity: q(t, tt.voc, unit.DimVoltage)},
+						BetaVoc: &unit.TempCoeff{Quantity: q(t, tt.beta, unit.DimTempCoeff)},
+					},
+				}},
+				Controllers: map[string]schema.Controller{"c": {Part: schema.ControllerPart{
+					MaxPVVoltage: unit.Voltage{Quantity: q(t, fmt.Sprintf("%g V", tt.controller), unit.DimVoltage)},
+				}}},
+			}
+			var rep Report
+			ColdVoc.Run(&Input{Design: d, Rules: rules, Position: func(string) string { return "" }}, &rep)
+			f := rep.Findings[0]
+			if math.Abs(f.Value-tt.want) > tt.tolerance*tt.want {
+				t.Errorf("Voc_max = %v V, want %v V", f.Value, tt.want)
+			}
+			wantStatus := result.Pass
+			if tt.want > tt.controller {
+				wantStatus = result.Fail
+			}
+			if f.Status != wantStatus {
+				t.Errorf("status %s, want %s: %s", f.Status, wantStatus, f.Message)
+			}
+		})
+	}
+}
+
+// TestColdVocTable checks the table method where a module gives no βVoc:
+// NEC Table 690.7(A), −6 to −10 °C → 1.14 (from memory).
+func TestColdVocTable(t *testing.T) {
+	rules := defaultRules(t)
+	if got := rowFactor(rules.VocFactor.Rows, -7); got != 1.14 {
+		t.Errorf("factor at −7 °C = %v, want 1.14 (NEC Table 690.7(A), from memory)", got)
+	}
+	if got := rowFactor(rules.VocFactor.Rows, 22); got != 1.02 {
+		t.Errorf("factor at 22 °C = %v, want 1.02", got)
+	}
+	if got := rowFactor(rules.VocFactor.Rows, -45); got != 1.25 {
+		t.Errorf("factor below the table = %v, want its last row, 1.25", got)
+	}
+}
+
+// TestChargeRateBounds: lead-acid bulk charge at roughly 10–30 % of
+// capacity (common practice).
+func TestChargeRateBounds(t *testing.T) {
+	rules := defaultRules(t)
+	for _, tt := range []struct {
+		output string
+		want   result.Status
+	}{
+		{"5 A", result.Warn},  // 5 % of 100 Ah
+		{"20 A", result.Pass}, // 20 %
+		{"40 A", result.Fail}, // 40 %
+	} {
+		d := bankDesign(t, "flooded", "12 V", "100 Ah", 1, 0.5)
+		d.Controllers = map[string]schema.Controller{"c": {Part: schema.ControllerPart{Output: unit.Current{Quantity: q(t, tt.output, unit.DimCurrent)}}}}
+		var rep Report
+		ChargeRate.Run(&Input{Design: d, Rules: rules, Position: func(string) string { return "" }}, &rep)
+		if got := rep.Findings[0].Status; got != tt.want {
+			t.Errorf("%s into 100 Ah: %s, want %s (%s)", tt.output, got, tt.want, rep.Findings[0].Message)
+		}
+	}
+}
+
+func flat(n int, load, solar float64) []Hour {
+	h := make([]Hour, n)
+	for i := range h {
+		h[i] = Hour{Load: load, Solar: solar}
+	}
+	return h
+}
+
+// TestSimulateNoCharge: with no charge source the state of charge falls by
+// exactly the loads' energy down to the floor, where the run records the
+// unmet energy.
+func TestSimulateNoCharge(t *testing.T) {
+	ch := Chemistry{LeadAcid: true, Efficiency: 0.85, TaperFrom: 0.8, TaperEnd: 0.05, MaxCharge: math.Inf(1)}
+	const stored, floor, load = 1000.0, 500.0, 30.0
+	s := Simulate(flat(24, load, 0), stored, floor, ch)
+	for i, soc := range s.SoC {
+		want := math.Max(floor, stored-load*float64(i+1)) / stored
+		if math.Abs(soc-want) > 1e-12 {
+			t.Fatalf("hour %d: SoC %v, want %v", i, soc, want)
+		}
+	}
+	// 24 × 30 = 720 Wh asked, 500 Wh above the floor: 220 Wh unmet.
+	if math.Abs(s.Unmet-220) > 1e-9 {
+		t.Errorf("unmet = %v Wh, want 220", s.Unmet)
+	}
+	if s.FirstBreach != 16 { // the 17th hour takes it below 500 Wh
+		t.Errorf("first breach at hour %d, want 16", s.FirstBreach)
+	}
+}
+
+// TestSimulateConservesEnergy: hour by hour, what goes in less what goes out
+// equals the change of stored energy, the charge losses, the energy not
+// taken and the unmet load accounted for.
+func TestSimulateConservesEnergy(t *testing.T) {
+	hours := make([]Hour, 24*20)
+	for i := range hours {
+		hod := i % 24
+		hours[i].Load = 40 + 20*math.Sin(float64(i)/7)
+		if hod >= 7 && hod <= 17 {
+			hours[i].Solar = 300 * math.Sin(math.Pi*float64(hod-6)/12)
+		}
+		if i%48 == 10 {
+			hours[i].Charger = 700
+		}
+	}
+	for _, ch := range []Chemistry{
+		{LeadAcid: true, Efficiency: 0.85, TaperFrom: 0.8, TaperEnd: 0.05, MaxCharge: 400},
+		{Efficiency: 0.97, MaxCharge: math.Inf(1)},
+	} {
+		const stored, floor = 2000.0, 1000.0
+		s := Simulate(hours, stored, floor, ch)
+		start, end := stored, s.SoC[len(s.SoC)-1]*stored
+		// ΔE = stored in − drawn + unmet (the load the bank could not give).
+		if got, want := end-start, s.Charged-s.Drawn+s.Unmet; math.Abs(got-want) > 1e-6 {
+			t.Errorf("%+v: ΔE = %v, ledger %v", ch, got, want)
+		}
+		if got, want := s.Offered, s.Charged+s.ChargeLoss+s.Spilled; math.Abs(got-want) > 1e-6 {
+			t.Errorf("%+v: offered %v ≠ stored %v + losses %v + not taken %v", ch, got, s.Charged, s.ChargeLoss, s.Spilled)
+		}
+		for i, soc := range s.SoC {
+			if soc > 1+1e-12 || soc < floor/stored-1e-12 {
+				t.Fatalf("hour %d: SoC %v outside [floor, full]", i, soc)
+			}
+		}
+	}
+}
+
+// TestSimulateMoreArrayNeverWorse: doubling the array never lowers the
+// lowest state of charge.
+func TestSimulateMoreArrayNeverWorse(t *testing.T) {
+	ch := Chemistry{LeadAcid: true, Efficiency: 0.85, TaperFrom: 0.8, TaperEnd: 0.05, MaxCharge: 500}
+	for _, base := range []float64{0, 20, 60, 150, 400} {
+		hours := make([]Hour, 24*14)
+		for i := range hours {
+			hod := i % 24
+			hours[i].Load = 60
+			if hod >= 8 && hod <= 16 {
+				hours[i].Solar = base * math.Sin(math.Pi*float64(hod-7)/10)
+			}
+		}
+		one := Simulate(hours, 3000, 1500, ch)
+		for i := range hours {
+			hours[i].Solar *= 2
+		}
+		two := Simulate(hours, 3000, 1500, ch)
+		if two.Lowest < one.Lowest-1e-12 {
+			t.Errorf("array %v W: doubled gives lowest %v, below %v", base, two.Lowest, one.Lowest)
+		}
+		if two.Unmet > one.Unmet+1e-9 {
+			t.Errorf("array %v W: doubled leaves %v Wh unmet, more than %v", base, two.Unmet, one.Unmet)
+		}
+	}
+}
+
+// BenchmarkSimulateYear runs a year of hours; it must take well under a
+// millisecond.
+func BenchmarkSimulateYear(b *testing.B) {
+	hours := make([]Hour, 365*24)
+	for i := range hours {
+		hod := i % 24
+		hours[i].Load = 50
+		if hod >= 7 && hod <= 17 {
+			hours[i].Solar = 250 * math.Sin(math.Pi*float64(hod-6)/12)
+		}
+	}
+	ch := Chemistry{LeadAcid: true, Efficiency: 0.85, TaperFrom: 0.8, TaperEnd: 0.05, MaxCharge: 500}
+	b.ReportAllocs()
+	for b.Loop() {
+		Simulate(hours, 4000, 2000, ch)
+	}
+}
