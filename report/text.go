@@ -97,6 +97,29 @@ func Text(w io.Writer, r *result.Result) error {
 		t.flush()
 	}
 
+	if len(s.Arrays) > 0 {
+		p.section("String voltage window")
+		for _, a := range s.Arrays {
+			var parts []string
+			for _, f := range r.Checks {
+				if f.Subject != a.Name && f.Subject != a.Controller {
+					continue
+				}
+				switch f.ID {
+				case "pv.coldVoc":
+					parts = append(parts, fmt.Sprintf("cold Voc %.1f V ≤ %g V max", f.Value, f.Limit))
+				case "pv.hotVmp":
+					parts = append(parts, fmt.Sprintf("hot Vmp %.1f V ≥ %.1f V needed", f.Value, f.Limit))
+				case "pv.inputCurrent":
+					if f.Limit > 0 {
+						parts = append(parts, fmt.Sprintf("input %.1f A ≤ %g A", f.Value, f.Limit))
+					}
+				}
+			}
+			p.line("%s: %s", a.Name, strings.Join(parts, "; "))
+		}
+	}
+
 	if len(r.Harvest) > 0 && len(r.Budget) > 0 {
 		p.section("Balance (solar harvest as a share of each scenario's use per day)")
 		hdr := []string{"scenario", "use/day"}
