@@ -183,14 +183,18 @@ conductors between it and the device, positive and return, taken at 20 °C
     R_bank  = R_battery × N_series / N_parallel
     I_fault = V_bank / (R_bank + Σ 2 × L × R′(20 °C) of the runs upstream)
 
-V_bank is the bank's nominal voltage.
+V_bank is the fully charged bank's rest voltage, the rulebook's faultVoltage
+× nominal (default 1.07, common practice); the nominal voltage would
+understate the fault. Charge sources add little to a bolted fault and are
+left out.
 
 Limit: the device's interrupting rating from the catalog (the maker's
 data). A LiFePO4 bank's low internal resistance gives fault currents of
 several thousand amperes, beyond a blade fuse's rating.`,
 	Run: func(in *Input, out *Report) {
 		b := in.Design.Bank
-		vbank := float64(b.Series) * b.Battery.Voltage.Volts()
+		// A fully charged bank at rest drives the fault.
+		vbank := in.Rules.Protection.FaultVoltage * float64(b.Series) * b.Battery.Voltage.Volts()
 		rbank := b.Battery.Resistance.Ohms() * float64(b.Series) / float64(b.Parallel)
 		for _, r := range in.Network.Runs {
 			d := r.Spec.Protection
@@ -207,7 +211,7 @@ several thousand amperes, beyond a blade fuse's rating.`,
 				ID: "protection.faultCurrent", Subject: r.Name, Value: round(fault, 1), Unit: "A",
 				Formula: "I_fault = V_bank / (R_bank + R_upstream)",
 				Inputs: []result.Input{
-					{Name: "V_bank", Value: vbank, Unit: "V", From: "bank"},
+					{Name: "V_bank", Value: round(vbank, 3), Unit: "V", From: "rules.protection.faultVoltage × nominal"},
 					{Name: "R_bank", Value: round(rbank*1000, 4), Unit: "mΩ", From: "bank.battery.resistance × series ÷ parallel"},
 					{Name: "R_upstream", Value: round(loop*1000, 4), Unit: "mΩ", From: "runs between the bank and " + r.Up},
 				},

@@ -136,8 +136,10 @@ F_engine is the rulebook's engine-space factor for the insulation rating
 F_bundle the rulebook's factor for the number of current-carrying
 conductors bundled together (note 2), else 1.
 
-Limit: the design current I (as in wiring.voltageDrop, for solar runs
-1.56 × Isc × strings, NEC 690.8(B)) must not exceed I_allowed.`,
+Limit: the design current I (as in wiring.voltageDrop) must not exceed
+I_allowed. A solar run follows NEC 690.8(B): 1.56 × Isc × strings must not
+exceed I_table, and 1.25 × Isc × strings must not exceed I_allowed (the
+rulebook's conductorFactor and inputFactor).`,
 	Run: func(in *Input, out *Report) {
 		for _, r := range in.Network.Runs {
 			a := conductorAmpacity(in, r.Spec, r.Spec.Size)
@@ -164,13 +166,18 @@ Limit: the design current I (as in wiring.voltageDrop, for solar runs
 				},
 				Source: in.Rules.Ampacity.Source,
 			})
+			need, needDerated := ampacityNeeds(in, r)
 			f.Limit = round(a.derated, 2)
-			f.Margin = round(a.derated-r.Current, 2)
-			f.Message = fmt.Sprintf("%s design current (%s) against %g A × %g × %g = %s allowed", amps(r.Current), r.Basis, a.table, a.engine, a.bundle, amps(a.derated))
+			f.Margin = round(a.derated-needDerated, 2)
+			f.Value = round(needDerated, 2)
+			f.Message = fmt.Sprintf("%s design current (%s) against %g A × %g × %g = %s allowed", amps(needDerated), r.Basis, a.table, a.engine, a.bundle, amps(a.derated))
+			if r.Role == PV {
+				f.Message = fmt.Sprintf("solar run (NEC 690.8(B)): %s before derating against %g A in the table, %s after against %g A × %g × %g = %s", amps(need), a.table, amps(needDerated), a.table, a.engine, a.bundle, amps(a.derated))
+			}
 			if a.note != "" {
 				f.Message += "; " + a.note
 			}
-			if r.Current > a.derated {
+			if needDerated > a.derated || need > a.table {
 				f.Status = result.Fail
 				f.Change = changeFor(in, r)
 			}
@@ -239,17 +246,30 @@ func passesWiring(in *Input, r *Run, size unit.Size) (measured, bool) {
 	if r.Spec.Sheathed {
 		min = in.Rules.MinimumSize.Sheathed
 	}
-	ok := m.amp.ok && r.Current <= m.amp.derated &&
+	need, needDerated := ampacityNeeds(in, r)
+	ok := m.amp.ok && need <= m.amp.table && needDerated <= m.amp.derated &&
 		m.dropPct <= dropLimit(in.Rules, r.Class) &&
 		size.MM2() >= min.MM2()*(1-1e-9)
 	return m, ok
+}
+
+// ampacityNeeds is the current a run's conductor must carry before and
+// after derating. For most runs both are the design current. A solar run
+// follows NEC 690.8(B): the conductor carries conductorFactor × Isc (1.56)
+// before correction and adjustment, and inputFactor × Isc (1.25) after.
+func ampacityNeeds(in *Input, r *Run) (table, derated float64) {
+	if r.Role != PV {
+		return r.Current, r.Current
+	}
+	pv := in.Rules.PV
+	return r.Current, r.Current * pv.InputFactor / pv.ConductorFactor
 }
 
 // SmallestPassingSize returns the smallest standard size in the run's
 // family (AWG or mm²), at least its present size, that passes every wiring
 // check, and false when none does.
 func SmallestPassingSize(in *Input, r *Run) (unit.Size, measured, bool) {
-	for _, s := range standardSizes(r.Spec.Size) {
+	for _, s := range standardSizes(in, r.Spec.Size) {
 		if s.MM2() < r.Spec.Size.MM2()*(1-1e-9) {
 			continue
 		}
@@ -261,8 +281,9 @@ func SmallestPassingSize(in *Input, r *Run) (unit.Size, measured, bool) {
 }
 
 // standardSizes lists the standard sizes of a conductor's family, thin to
-// thick.
-func standardSizes(like unit.Size) []unit.Size {
+// thick: every AWG size, and the metric sizes the rulebook's resistance
+// table gives, so that a suggestion never rests on a nominal-area guess.
+func standardSizes(in *Input, like unit.Size) []unit.Size {
 	var out []unit.Size
 	if _, ok := like.AWG(); ok {
 		for _, g := range unit.StandardAWG() {
@@ -273,6 +294,9 @@ func standardSizes(like unit.Size) []unit.Size {
 		return out
 	}
 	for _, a := range unit.StandardMetric() {
+		if _, _, ok := lookupSize(in.Rules.Resistance.Metric.Plain, a); !ok {
+			continue
+		}
 		if q, err := unit.ParseAs(fmt.Sprintf("%g mm²", a), unit.DimSize); err == nil {
 			out = append(out, unit.Size{Quantity: q})
 		}
@@ -297,13 +321,21 @@ func changeFor(in *Input, r *Run) string {
 	return msg
 }
 
-// fittingRating is the smallest standard device rating at least the
-// design current and at most the rulebook's ratio × ampacity.
+// suggestHeadroom is the margin a suggested rating keeps over the design
+// current, so that a device does not open on a motor's start or a long
+// full load (common practice: 125 % of the continuous current).
+const suggestHeadroom = 1.25
+
+// fittingRating is the smallest standard device rating at least 1.25 × the
+// design current (else at least the design current) and at most the
+// rulebook's ratio × ampacity.
 func fittingRating(in *Input, current, ampacity float64) (float64, bool) {
 	p := in.Rules.Protection
-	for _, rating := range p.StandardRatings {
-		if rating >= current && rating <= p.Ratio*ampacity {
-			return rating, true
+	for _, floor := range []float64{suggestHeadroom * current, current} {
+		for _, rating := range p.StandardRatings {
+			if rating >= floor && rating <= p.Ratio*ampacity {
+				return rating, true
+			}
 		}
 	}
 	return 0, false

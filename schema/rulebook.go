@@ -101,6 +101,8 @@ type ProtectionRule struct {
 	WithinBattery  unit.Length `json:"withinBattery"`
 	// StandardRatings are device ratings in amperes, ascending.
 	StandardRatings []float64 `json:"standardRatings"`
+	// FaultVoltage is the full-charge rest voltage as a multiple of nominal.
+	FaultVoltage float64 `json:"faultVoltage"`
 }
 
 // MinimumSizeRule is the smallest conductor allowed.
