@@ -45,6 +45,9 @@ type Design struct {
 	// Rules is the rulebook in force: the default, with the design's
 	// tables over it.
 	Rules schema.Rulebook
+	// Git is the revision the design was read from, when it is in a git
+	// work tree.
+	Git GitInfo
 	// pos holds the design's position of every named entry, by CUE path.
 	pos map[string]token.Pos
 }
@@ -113,6 +116,7 @@ func Load(dir string) (*Design, error) {
 		Spec:  &spec,
 		Rules: rules.Over(spec.Rules),
 		pos:   entryPositions(&validator{root: unified, data: data, home: inst.Dir}),
+		Git:   readGit(root),
 	}
 	return d, nil
 }

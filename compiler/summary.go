@@ -29,6 +29,7 @@ func Compile(dir string) (*result.Result, *Design, error) {
 	r.Budget = budgetTable(d)
 	r.Harvest = in.HarvestResult()
 	r.Voyage = in.VoyageResult()
+	r.BOM = billOfMaterials(d)
 	return r, d, nil
 }
 
@@ -46,6 +47,15 @@ func (d *Design) Result() *result.Result {
 			Path:       d.Dir,
 			InputsHash: d.Hash,
 			Units:      s.Vessel.Units,
+			Revision:   d.Git.Revision,
+			Dirty:      d.Git.Dirty,
+			CommitTime: d.Git.Time,
+			Length:     s.Vessel.Length.Text,
+			Client:     s.Vessel.Client,
+			Yard:       s.Vessel.Yard,
+			Designer:   s.Vessel.Designer,
+			Checker:    s.Vessel.Checker,
+			Approver:   s.Vessel.Approver,
 		},
 		Rulebook: result.Rulebook{Name: d.Rules.Name, Edition: d.Rules.Edition},
 		Figures:  []result.Figure{},

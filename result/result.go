@@ -53,6 +53,8 @@ type Result struct {
 	Harvest []ArrayHarvest `json:"harvest"`
 	// Voyage is the state-of-charge run over the design voyage, if any.
 	Voyage *Voyage `json:"voyage,omitempty"`
+	// BOM is the bill of materials.
+	BOM *BOM `json:"bom,omitempty"`
 	// Problems are input errors; a Result with problems has no figures.
 	Problems []Problem `json:"problems,omitempty"`
 }
@@ -73,6 +75,15 @@ type Identity struct {
 	Dirty bool `json:"dirty,omitempty"`
 	// Units is the design's preferred units: metric or imperial.
 	Units string `json:"units,omitempty"`
+	// CommitTime is the revision's commit time, Unix seconds, or 0.
+	CommitTime int64 `json:"commitTime,omitempty"`
+	// The people and the boat named on the pack.
+	Length   string `json:"length,omitempty"`
+	Client   string `json:"client,omitempty"`
+	Yard     string `json:"yard,omitempty"`
+	Designer string `json:"designer,omitempty"`
+	Checker  string `json:"checker,omitempty"`
+	Approver string `json:"approver,omitempty"`
 }
 
 // Rulebook names the rulebook used and its edition.
@@ -125,6 +136,36 @@ type CircuitLine struct {
 	Length     string `json:"length"`
 	Size       string `json:"size"`
 	Protection string `json:"protection,omitempty"`
+}
+
+// BOM is a design's bill of materials.
+type BOM struct {
+	Currency string    `json:"currency,omitempty"`
+	Lines    []BOMLine `json:"lines"`
+	// Total is the sum of the priced lines; Complete is false when some
+	// line has no price, and the total then leaves it out.
+	Total    float64 `json:"total"`
+	Complete bool    `json:"complete"`
+	// Slack is the rulebook's cable allowance, a fraction, and its source.
+	Slack       float64 `json:"slack"`
+	SlackSource string  `json:"slackSource"`
+}
+
+// BOMLine is one part, or one cable, and how many are needed.
+type BOMLine struct {
+	Category    string `json:"category"`
+	Part        string `json:"part"`
+	Description string `json:"description"`
+	// Quantity is in Unit: "each", or a cable's sale unit such as "30 m".
+	Quantity float64 `json:"quantity"`
+	Unit     string  `json:"unit"`
+	// Length is a cable's total length, metres, slack included.
+	Length float64 `json:"length,omitempty"`
+	// UnitPrice and Total are absent when the catalog gives no price.
+	UnitPrice *float64 `json:"unitPrice,omitempty"`
+	Total     *float64 `json:"total,omitempty"`
+	// For says what the part is for: the runs, arrays or devices.
+	For string `json:"for"`
 }
 
 // ArrayHarvest is one array's harvest by month.

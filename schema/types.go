@@ -24,6 +24,7 @@ type Design struct {
 	Chargers    map[string]Charger    `json:"chargers,omitempty"`
 	Buses       map[string]Bus        `json:"buses,omitempty"`
 	Wiring      map[string]Conductor  `json:"wiring"`
+	Currency    string                `json:"currency,omitempty"`
 	Rules       *Rulebook             `json:"rules,omitempty"`
 }
 
@@ -316,6 +317,17 @@ type Cable struct {
 	Material   string           `json:"material"`
 	Colour     string           `json:"colour,omitempty"`
 	SaleUnit   unit.Length      `json:"saleUnit"`
+	Terminal   *Terminal        `json:"terminal,omitempty"`
+	// ReturnCable is the same size in the return colour.
+	ReturnCable *Cable `json:"returnCable,omitempty"`
+}
+
+// Terminal is a crimp terminal for one conductor size.
+type Terminal struct {
+	Part
+	Size unit.Size `json:"size"`
+	Stud string    `json:"stud,omitempty"`
+	Per  int       `json:"per"`
 }
 
 // Busbar is a busbar, terminal block or fuse block.

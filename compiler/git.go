@@ -1,0 +1,41 @@
+package compiler
+
+import (
+	"os/exec"
+	"strconv"
+	"strings"
+)
+
+// GitInfo is the revision a design was read from.
+type GitInfo struct {
+	Revision string // commit hash, "" outside a git work tree
+	Time     int64  // commit time, Unix seconds
+	// Dirty is true when the module has uncommitted changes.
+	Dirty bool
+}
+
+// readGit asks git about the work tree holding dir. git runs with an
+// argument list, never through a shell; without git, or outside a work
+// tree, the result is empty.
+func readGit(dir string) GitInfo {
+	run := func(args ...string) (string, bool) {
+		cmd := exec.Command("git", append([]string{"-C", dir}, args...)...)
+		out, err := cmd.Output()
+		if err != nil {
+			return "", false
+		}
+		return strings.TrimSpace(string(out)), true
+	}
+	rev, ok := run("rev-parse", "--verify", "--quiet", "HEAD")
+	if !ok || rev == "" {
+		return GitInfo{}
+	}
+	g := GitInfo{Revision: rev}
+	if t, ok := run("log", "-1", "--format=%ct", "HEAD"); ok {
+		g.Time, _ = strconv.ParseInt(t, 10, 64)
+	}
+	if st, ok := run("status", "--porcelain", "--", "."); ok && st != "" {
+		g.Dirty = true
+	}
+	return g
+}
