@@ -80,7 +80,7 @@ func billOfMaterials(d *Design) *result.BOM {
 		if p := c.Protection; p != nil {
 			b.add("protection", p.Part, partText(p.Part, fmt.Sprintf("%s %s", p.Rating.Text, p.Kind)), 1, n)
 			if h := p.Holder; h != nil {
-				b.add("fuse holders", *h, partText(*h, "holder for "+p.ID), 1, n)
+				b.add("fuse holders", *h, partText(*h, "fuse holder"), 1, n)
 			}
 		}
 		one := c.Length.Metres() * (1 + slack)

@@ -92,6 +92,7 @@ nor the standards and local rules that apply to the boat.`,
 	})
 	root.AddCommand(
 		newCheckCmd(),
+		newBOMCmd(),
 		newExplainCmd(),
 		newSchemaCmd(),
 		newVersionCmd(),
