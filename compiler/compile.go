@@ -23,6 +23,7 @@ import (
 	"path/filepath"
 
 	"cuelang.org/go/cue"
+	"cuelang.org/go/cue/build"
 	"cuelang.org/go/cue/cuecontext"
 	"cuelang.org/go/cue/token"
 
@@ -50,6 +51,8 @@ type Design struct {
 	Git GitInfo
 	// pos holds the design's position of every named entry, by CUE path.
 	pos map[string]token.Pos
+	// value is the design unified with the schema.
+	value cue.Value
 }
 
 // Position returns the design's file:line:col for a CUE path such as
@@ -61,22 +64,43 @@ func (d *Design) Position(path string) string {
 // Load reads, validates and decodes the hull design in dir. Input errors
 // are returned as an ErrorList.
 func Load(dir string) (*Design, error) {
+	return LoadFrom(dir, nil)
+}
+
+// LoadFrom is Load reading from src, where dir is the hull's directory
+// relative to the module root; with a nil src it reads the host file system.
+func LoadFrom(dir string, src *Source) (*Design, error) {
 	ctx := cuecontext.New()
-	inst, files, err := loadInstance(dir)
+	var (
+		inst  *build.Instance
+		files []string
+		err   error
+		root  string
+		read  = os.ReadFile
+		git   GitInfo
+	)
+	if src == nil {
+		inst, files, err = loadInstance(dir)
+		abs, _ := filepath.Abs(dir)
+		if root = moduleRoot(abs); root == "" {
+			root = abs
+		}
+	} else {
+		inst, files, err = loadSourceInstance(dir, src)
+		root, read, git = src.root(), src.read, src.Git
+	}
 	if err != nil {
 		if inst == nil {
 			return nil, ErrorList{{Msg: err.Error()}}
 		}
 		return nil, loadErrors(err)
 	}
-	abs, _ := filepath.Abs(dir)
-	root := moduleRoot(abs)
-	if root == "" {
-		root = abs
-	}
-	hash, err := inputsHash(root, files, os.ReadFile)
+	hash, err := inputsHash(root, files, read)
 	if err != nil {
 		return nil, ErrorList{{Msg: err.Error()}}
+	}
+	if src == nil {
+		git = readGit(root)
 	}
 
 	data := ctx.BuildInstance(inst)
@@ -116,7 +140,8 @@ func Load(dir string) (*Design, error) {
 		Spec:  &spec,
 		Rules: rules.Over(spec.Rules),
 		pos:   entryPositions(&validator{root: unified, data: data, home: inst.Dir}),
-		Git:   readGit(root),
+		Git:   git,
+		value: unified,
 	}
 	return d, nil
 }

@@ -174,6 +174,19 @@ func posString(p token.Pos) string {
 // below it, so that messages and goldens do not depend on where a checkout
 // sits.
 func displayName(name string) string {
+	if strings.HasPrefix(name, virtualBase+"/") {
+		var shown string
+		labels.Range(func(k, v any) bool {
+			if root := k.(string); strings.HasPrefix(name, root+"/") {
+				shown = v.(string) + strings.TrimPrefix(name, root+"/")
+				return false
+			}
+			return true
+		})
+		if shown != "" {
+			return shown
+		}
+	}
 	if strings.HasPrefix(name, schema.FilePrefix) || !filepath.IsAbs(name) {
 		return filepath.ToSlash(name)
 	}

@@ -6,8 +6,12 @@ import (
 	"encoding/hex"
 	"fmt"
 	"os"
+	"path"
 	"path/filepath"
 	"sort"
+	"strings"
+	"sync"
+	"testing/fstest"
 
 	"cuelang.org/go/cue/build"
 	"cuelang.org/go/cue/errors"
@@ -54,6 +58,65 @@ func moduleRoot(dir string) string {
 	}
 }
 
+// Source is where a design's files come from when not from the host file
+// system: a whole module held in memory, as read from a git revision, so
+// that an old revision loads without touching the working tree.
+type Source struct {
+	// Files are the module's files by slash path relative to its root
+	// ("cue.mod/module.cue", "hulls/tern/tern.cue").
+	Files map[string][]byte
+	// Label prefixes file names in messages, such as "a1b2c3d:designs/".
+	Label string
+	// Git is the revision the files were read from.
+	Git GitInfo
+}
+
+func (s *Source) fs() fstest.MapFS {
+	m := fstest.MapFS{}
+	for name, b := range s.Files {
+		m[name] = &fstest.MapFile{Data: b, Mode: 0o644}
+	}
+	return m
+}
+
+// virtualBase is where a source's files are laid out for cue/load: a path
+// that is not on the host, so every file comes from memory. (cue/load's
+// in-memory file systems do not yet resolve cue.mod/pkg imports, so the
+// source is given as an overlay.)
+const virtualBase = "/.ampwright-revision"
+
+// root is the source's module root in the overlay.
+func (s *Source) root() string {
+	return virtualBase + "/" + strings.Trim(strings.NewReplacer(":", "/", "\\", "/").Replace(s.Label), "/")
+}
+
+// read returns a file of the source by its overlay path.
+func (s *Source) read(name string) ([]byte, error) {
+	rel := strings.TrimPrefix(filepath.ToSlash(name), s.root()+"/")
+	b, ok := s.Files[rel]
+	if !ok {
+		return nil, fmt.Errorf("%s: not in the revision", name)
+	}
+	return b, nil
+}
+
+// labels maps overlay roots to the labels messages show them by.
+var labels sync.Map
+
+// loadSourceInstance loads the package in dir, a slash path relative to
+// the source's module root.
+func loadSourceInstance(dir string, src *Source) (*build.Instance, []string, error) {
+	root := src.root()
+	labels.Store(root, src.Label)
+	overlay := make(map[string]load.Source, len(src.Files))
+	for name, b := range src.Files {
+		overlay[root+"/"+name] = load.FromBytes(b)
+	}
+	cfg := &load.Config{Dir: root, Overlay: overlay, Registry: refusingRegistry{}}
+	insts := load.Instances([]string{"./" + strings.TrimPrefix(path.Clean(dir), "./")}, cfg)
+	return checkInstance(dir, insts, src.read)
+}
+
 // loadInstance loads the CUE package in dir. The instance's own files,
 // and those of every package it imports, are returned sorted.
 func loadInstance(dir string) (*build.Instance, []string, error) {
@@ -79,6 +142,10 @@ func loadInstance(dir string) (*build.Instance, []string, error) {
 		arg = "./" + filepath.ToSlash(rel)
 	}
 	insts := load.Instances([]string{arg}, cfg)
+	return checkInstance(dir, insts, os.ReadFile)
+}
+
+func checkInstance(dir string, insts []*build.Instance, read func(string) ([]byte, error)) (*build.Instance, []string, error) {
 	if len(insts) != 1 {
 		return nil, nil, fmt.Errorf("design %s: expected one CUE package, found %d", dir, len(insts))
 	}
@@ -89,7 +156,7 @@ func loadInstance(dir string) (*build.Instance, []string, error) {
 	if len(inst.BuildFiles) == 0 {
 		return inst, nil, fmt.Errorf("design %s: no .cue files", dir)
 	}
-	if err := checkVendoredSchema(inst); err != nil {
+	if err := checkVendoredSchema(inst, read); err != nil {
 		return inst, nil, err
 	}
 	return inst, instanceFiles(inst), nil
@@ -99,7 +166,7 @@ func loadInstance(dir string) (*build.Instance, []string, error) {
 // schema that is not the one built into this ampwright: unified with the
 // built-in one, a stale copy gives errors that point at the designer's
 // lines for fields they never wrote.
-func checkVendoredSchema(inst *build.Instance) error {
+func checkVendoredSchema(inst *build.Instance, read func(string) ([]byte, error)) error {
 	var vendored *build.Instance
 	seen := map[*build.Instance]bool{}
 	var walk func(*build.Instance)
@@ -132,7 +199,7 @@ func checkVendoredSchema(inst *build.Instance) error {
 	for _, f := range vendored.BuildFiles {
 		base := filepath.Base(f.Filename)
 		got[base] = true
-		b, err := os.ReadFile(f.Filename)
+		b, err := read(f.Filename)
 		if err != nil {
 			return err
 		}

@@ -12,7 +12,12 @@ import (
 // Compile loads the design in dir and runs every check over it. Input
 // errors come back as an ErrorList, with no result.
 func Compile(dir string) (*result.Result, *Design, error) {
-	d, err := Load(dir)
+	return CompileFrom(dir, nil)
+}
+
+// CompileFrom is Compile reading from src (see LoadFrom).
+func CompileFrom(dir string, src *Source) (*result.Result, *Design, error) {
+	d, err := LoadFrom(dir, src)
 	if err != nil {
 		return nil, nil, err
 	}

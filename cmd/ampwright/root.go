@@ -93,6 +93,8 @@ nor the standards and local rules that apply to the boat.`,
 	root.AddCommand(
 		newCheckCmd(),
 		newBOMCmd(),
+		newDiffCmd(),
+		newFleetCmd(),
 		newExplainCmd(),
 		newSchemaCmd(),
 		newVersionCmd(),

@@ -1,0 +1,173 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+
+	"github.com/spf13/cobra"
+
+	"github.com/ampwright/ampwright/compiler"
+	"github.com/ampwright/ampwright/report"
+	"github.com/ampwright/ampwright/result"
+)
+
+const (
+	flagBase   = "base"
+	flagHead   = "head"
+	flagFailOn = "fail-on"
+)
+
+type diffOptions struct {
+	base, head, format, failOn string
+	stdout                     io.Writer
+}
+
+func newDiffCmd() *cobra.Command {
+	opts := &diffOptions{}
+	c := &cobra.Command{
+		Use:   "diff [YARD | DIR_A DIR_B]",
+		Short: "Show what a change does to every hull of a yard",
+		Long: `diff compiles every hull of a yard at two revisions and reports, hull by
+hull, the inputs that changed, the figures that changed (old → new,
+difference, percent), the findings whose status changed (pass → fail is a
+regression, fail → pass a fix) and the bill of materials and its cost.
+Hulls added and removed are listed. A hull whose inputs (its own files and
+everything it imports, catalog and rulebook included) are the same on both
+sides is listed as unchanged without being compiled.
+
+YARD is the yard's CUE module (default: the module holding the current
+directory). The base is --base (default: the merge base with the default
+branch, or HEAD), read from git's objects without touching the work tree;
+the head is --head, or the work tree. Given two directories, diff compares
+them instead.
+
+--format hulls prints the paths of the changed and added hulls, one a
+line, for scripts (such as building a pack for each).
+
+Exit status: 0 no regression, 1 a regression (or, with --fail-on failing,
+any failing finding in a changed hull), 2 an error.`,
+		Example: `  ampwright diff designs
+  ampwright diff --base origin/main --format markdown designs >> "$GITHUB_STEP_SUMMARY"
+  ampwright diff --base v1.2 --head v1.3 designs
+  ampwright diff old-yard new-yard`,
+		Args: cobra.MaximumNArgs(2),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := checkFormat(opts.format, "text", "markdown", "json", "hulls"); err != nil {
+				return err
+			}
+			switch opts.failOn {
+			case "regression", "failing", "never":
+			default:
+				return usageError("--%s %q: expected regression|failing|never", flagFailOn, opts.failOn)
+			}
+			opts.stdout = cmd.OutOrStdout()
+			return runDiff(opts, args)
+		},
+	}
+	c.Flags().StringVar(&opts.base, flagBase, "", "base revision (default: merge base with the default branch, or HEAD)")
+	c.Flags().StringVar(&opts.head, flagHead, "", "head revision (default: the work tree)")
+	c.Flags().StringVar(&opts.failOn, flagFailOn, "regression", "exit 1 on: regression|failing|never")
+	formatFlag(c, &opts.format, "text", "markdown", "json", "hulls")
+	return c
+}
+
+func runDiff(opts *diffOptions, args []string) error {
+	var base, head compiler.Side
+	switch len(args) {
+	case 2:
+		if opts.base != "" || opts.head != "" {
+			return usageError("give --base and --head with a yard, not with two directories")
+		}
+		for _, d := range args {
+			if fi, err := os.Stat(d); err != nil || !fi.IsDir() {
+				return usageError("%s is not a directory", d)
+			}
+		}
+		base = compiler.Side{Name: args[0], Dir: args[0]}
+		head = compiler.Side{Name: args[1], Dir: args[1]}
+	default:
+		yard := "."
+		if len(args) == 1 {
+			yard = args[0]
+		}
+		root, err := yardRoot(yard)
+		if err != nil {
+			return &exitError{code: exitInput, err: err}
+		}
+		rev := opts.base
+		if rev == "" {
+			rev = compiler.DefaultBase(root)
+		}
+		src, err := compiler.ReadRevision(root, rev)
+		if err != nil {
+			return &exitError{code: exitInput, err: err}
+		}
+		base = compiler.Side{Name: rev, Src: src}
+		if opts.head != "" {
+			hsrc, err := compiler.ReadRevision(root, opts.head)
+			if err != nil {
+				return &exitError{code: exitInput, err: err}
+			}
+			head = compiler.Side{Name: opts.head, Src: hsrc}
+		} else {
+			head = compiler.Side{Name: "work tree", Dir: root}
+		}
+	}
+	d, err := compiler.DiffYard(base, head)
+	if err != nil {
+		return &exitError{code: exitInput, err: err}
+	}
+	switch opts.format {
+	case "json":
+		err = report.JSON(opts.stdout, d)
+	case "markdown":
+		err = report.DiffMarkdown(opts.stdout, d)
+	case "hulls":
+		for _, h := range d.Hulls {
+			if h.State == result.HullChanged || h.State == result.HullAdded {
+				fmt.Fprintln(opts.stdout, h.Path)
+			}
+		}
+	default:
+		err = report.DiffText(opts.stdout, d)
+	}
+	if err != nil {
+		return err
+	}
+	if diffFails(opts.failOn, d) {
+		return &exitError{code: exitFail}
+	}
+	return nil
+}
+
+// diffFails applies --fail-on: a regression (or a hull the change broke),
+// any failing finding in a changed hull, or never.
+func diffFails(failOn string, d *result.YardDelta) bool {
+	switch failOn {
+	case "never":
+		return false
+	case "failing":
+		return d.Counts.Failing > 0 || d.Counts.Regressions > 0 || d.Counts.Broken > 0
+	}
+	return d.Counts.Regressions > 0 || d.Counts.Broken > 0
+}
+
+// yardRoot finds the CUE module holding dir.
+func yardRoot(dir string) (string, error) {
+	abs, err := filepath.Abs(dir)
+	if err != nil {
+		return "", err
+	}
+	for d := abs; ; {
+		if fi, err := os.Stat(filepath.Join(d, "cue.mod")); err == nil && fi.IsDir() {
+			return d, nil
+		}
+		parent := filepath.Dir(d)
+		if parent == d {
+			return "", fmt.Errorf("%s is not in a CUE module (no cue.mod directory above it)", dir)
+		}
+		d = parent
+	}
+}

@@ -1,0 +1,161 @@
+package compiler
+
+import (
+	"errors"
+	"path/filepath"
+
+	"github.com/ampwright/ampwright/result"
+)
+
+// Side is one side of a comparison: a yard module on disk, or a yard
+// module read from a git revision.
+type Side struct {
+	// Name is how the side is shown: a revision, "working tree", a path.
+	Name string
+	// Dir is the module root on disk, used when Src is nil.
+	Dir string
+	Src *Source
+}
+
+func (s Side) hulls() ([]string, error) { return Hulls(s.Dir, s.Src) }
+
+func (s Side) dir(hull string) string {
+	if s.Src != nil {
+		return hull
+	}
+	return filepath.Join(s.Dir, filepath.FromSlash(hull))
+}
+
+func (s Side) hash(hull string) (string, error) { return Hash(s.dir(hull), s.Src) }
+
+func (s Side) compile(hull string) (*result.Result, *Design, error) {
+	r, d, err := CompileFrom(s.dir(hull), s.Src)
+	if r != nil {
+		r.Design.Path = hull
+	}
+	return r, d, err
+}
+
+// DiffYard compares every hull of a yard between two sides. A hull whose
+// inputs hash is the same on both sides (its own files and everything it
+// imports, catalog and rulebook included) is listed as unchanged without
+// being compiled.
+func DiffYard(base, head Side) (*result.YardDelta, error) {
+	bh, err := base.hulls()
+	if err != nil {
+		return nil, err
+	}
+	hh, err := head.hulls()
+	if err != nil {
+		return nil, err
+	}
+	at := map[string][2]bool{}
+	for _, h := range bh {
+		v := at[h]
+		v[0] = true
+		at[h] = v
+	}
+	for _, h := range hh {
+		v := at[h]
+		v[1] = true
+		at[h] = v
+	}
+	yd := &result.YardDelta{Base: base.Name, Head: head.Name, Hulls: []result.HullDelta{}}
+	for _, hull := range sortedKeys(at) {
+		sides := at[hull]
+		var hd result.HullDelta
+		switch {
+		case !sides[1]:
+			hd = result.HullDelta{Path: hull, State: result.HullRemoved}
+			if r, _, err := base.compile(hull); err == nil {
+				hd.Name, hd.Hull = r.Design.Name, r.Design.Hull
+			}
+		case !sides[0]:
+			hd = headOnly(head, hull)
+		default:
+			hd = diffHull(base, head, hull)
+		}
+		yd.Hulls = append(yd.Hulls, hd)
+	}
+	yd.Counts = countDelta(yd.Hulls)
+	return yd, nil
+}
+
+// headOnly is a hull added at the head: every finding that does not pass
+// counts against it.
+func headOnly(head Side, hull string) result.HullDelta {
+	r, _, err := head.compile(hull)
+	if err != nil {
+		return broken(hull, err)
+	}
+	empty := &result.Result{Design: r.Design, BOM: &result.BOM{Complete: true}}
+	hd := result.Compare(empty, r)
+	hd.Path, hd.State, hd.Figures = hull, result.HullAdded, nil
+	return hd
+}
+
+func diffHull(base, head Side, hull string) result.HullDelta {
+	bHash, bErr := base.hash(hull)
+	hHash, hErr := head.hash(hull)
+	if bErr == nil && hErr == nil && bHash == hHash {
+		return result.HullDelta{Path: hull, State: result.HullUnchanged}
+	}
+	hr, hd, err := head.compile(hull)
+	if err != nil {
+		return broken(hull, err)
+	}
+	br, bd, err := base.compile(hull)
+	if err != nil {
+		// A base that did not compile: compare with an empty design, so
+		// that every finding of the head shows.
+		br = &result.Result{Design: hr.Design, BOM: &result.BOM{Complete: true}}
+		bd = nil
+	}
+	delta := result.Compare(br, hr)
+	delta.Path = hull
+	if bd != nil {
+		delta.Inputs = result.CompareInputs(bd.Inputs(), hd.Inputs())
+	}
+	if len(delta.Inputs) == 0 && len(delta.Figures) == 0 && len(delta.Findings) == 0 && len(delta.BOM) == 0 {
+		delta.State = result.HullUnchanged
+	}
+	return delta
+}
+
+func broken(hull string, err error) result.HullDelta {
+	hd := result.HullDelta{Path: hull, State: result.HullBroken}
+	var list ErrorList
+	if errors.As(err, &list) {
+		hd.Problems = list.Problems()
+	} else {
+		hd.Problems = []result.Problem{{Message: err.Error()}}
+	}
+	return hd
+}
+
+func countDelta(hs []result.HullDelta) result.DeltaCounts {
+	c := result.DeltaCounts{Hulls: len(hs)}
+	for i := range hs {
+		h := &hs[i]
+		switch h.State {
+		case result.HullUnchanged:
+			c.Unchanged++
+		case result.HullChanged:
+			c.Changed++
+		case result.HullAdded:
+			c.Added++
+		case result.HullRemoved:
+			c.Removed++
+		case result.HullBroken:
+			c.Broken++
+		}
+		c.Regressions += h.Regressions()
+		c.Fixes += h.Fixes()
+		for _, f := range h.Findings {
+			if f.New == result.Fail {
+				c.Failing++
+			}
+		}
+	}
+	return c
+}
