@@ -111,7 +111,10 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 	if err != nil {
 		return nil, fmt.Errorf("internal error: the embedded schema does not compile: %v", err)
 	}
-	// Data first, so that error paths name the design, not #Design.
+	// Data first, so that error paths name the design, not #Design. A
+	// hull that embeds the vendored #Design is unified again all the same:
+	// CUE does not close the structs of an embedded definition the way it
+	// closes a unified one, so a misspelt field would pass unseen.
 	unified := data.Unify(sch.LookupPath(schema.DesignPath))
 
 	v := &validator{root: unified, data: data, home: inst.Dir, refs: &refResolver{ctx: ctx, inst: inst, data: data}}
@@ -149,10 +152,10 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 // entryPositions records where the design declares each named entry.
 func entryPositions(c *validator) map[string]token.Pos {
 	out := map[string]token.Pos{}
-	for _, group := range []string{"scenarios", "loads", "inverters", "arrays", "controllers", "buses", "wiring"} {
+	for _, group := range []string{"scenarios", "loads", "inverters", "arrays", "controllers", "chargers", "buses", "wiring"} {
 		for _, name := range c.keys(group) {
 			p := cue.MakePath(cue.Str(group), cue.Str(name))
-			out[p.String()] = c.dataPos(p)
+			out[p.String()] = c.entryPos(p)
 		}
 	}
 	for _, top := range []string{"vessel", "site", "bank", "voyage", "autonomy"} {

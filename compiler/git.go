@@ -4,6 +4,7 @@ import (
 	"os/exec"
 	"strconv"
 	"strings"
+	"sync"
 )
 
 // GitInfo is the revision a design was read from.
@@ -14,10 +15,24 @@ type GitInfo struct {
 	Dirty bool
 }
 
-// readGit asks git about the work tree holding dir. git runs with an
-// argument list, never through a shell; without git, or outside a work
-// tree, the result is empty.
+// gitCache holds readGit's answers by directory: every hull of a yard
+// shares its module root, and a fleet should ask git once, not three times
+// a hull.
+var gitCache sync.Map
+
+// readGit asks git about the work tree holding dir, once per directory in
+// a process. git runs with an argument list, never through a shell;
+// without git, or outside a work tree, the result is empty.
 func readGit(dir string) GitInfo {
+	if g, ok := gitCache.Load(dir); ok {
+		return g.(GitInfo)
+	}
+	g := askGit(dir)
+	gitCache.Store(dir, g)
+	return g
+}
+
+func askGit(dir string) GitInfo {
 	run := func(args ...string) (string, bool) {
 		cmd := exec.Command("git", append([]string{"-C", dir}, args...)...)
 		out, err := cmd.Output()

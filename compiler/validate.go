@@ -27,10 +27,14 @@ type validator struct {
 	errs  ErrorList
 	quant map[string]bool // paths of quantity fields already reported
 	home  string          // the hull's package directory
+	// clean is true when CUE finds no error in the whole design: the walk
+	// then only checks quantities, without asking CUE about every node.
+	clean bool
 }
 
 func (c *validator) run() {
 	c.quant = map[string]bool{}
+	c.clean = c.root.Validate(cue.Concrete(true)) == nil
 	c.walk(c.root)
 }
 
@@ -39,9 +43,11 @@ func (c *validator) walk(v cue.Value) {
 		c.quantity(v, a)
 		return
 	}
-	if own := c.ownErrors(v); len(own) > 0 {
-		c.report(v, own)
-		return
+	if !c.clean {
+		if own := c.ownErrors(v); len(own) > 0 {
+			c.report(v, own)
+			return
+		}
 	}
 	n := len(c.errs)
 	if it, err := v.Fields(cue.All()); err == nil {
@@ -64,7 +70,7 @@ func (c *validator) walk(v cue.Value) {
 			c.walk(e)
 		}
 	}
-	if len(c.errs) > n {
+	if len(c.errs) > n || c.clean {
 		return
 	}
 	if err := v.Validate(cue.Concrete(true)); err != nil {
@@ -181,6 +187,38 @@ func (c *validator) ownPos(v cue.Value) token.Pos {
 		}
 	}
 	return token.NoPos
+}
+
+// entryPos is where the design declares a named entry: the first position,
+// in the hull's own files if it has one there, of the fields written in it,
+// looking two levels deep only, where ownPos walks the whole value
+// (catalog parts included).
+func (c *validator) entryPos(p cue.Path) token.Pos {
+	if pos := c.shallowPos(c.data.LookupPath(p), 2); pos.IsValid() {
+		return pos
+	}
+	return c.dataPos(p)
+}
+
+func (c *validator) shallowPos(v cue.Value, depth int) token.Pos {
+	it, err := v.Fields()
+	if err != nil {
+		return token.NoPos
+	}
+	var first token.Pos
+	for it.Next() {
+		pos := it.Value().Pos()
+		if (!pos.IsValid() || isSchemaPos(pos)) && depth > 1 {
+			pos = c.shallowPos(it.Value(), depth-1)
+		}
+		if !pos.IsValid() || isSchemaPos(pos) {
+			continue
+		}
+		if !first.IsValid() || (c.isHome(pos) && !c.isHome(first)) || (c.isHome(pos) == c.isHome(first) && comparePos(pos, first) < 0) {
+			first = pos
+		}
+	}
+	return first
 }
 
 // isHome reports whether p lies in the hull's own package directory.
@@ -305,6 +343,9 @@ func (c *validator) quantity(v cue.Value, a cue.Attribute) {
 	}
 	// Our parser accepted the value; CUE's pattern should have too. If it
 	// did not, say so rather than hide a disagreement.
+	if c.clean {
+		return
+	}
 	if err := v.Validate(cue.Concrete(true)); err != nil {
 		c.report(v, errors.Errors(err))
 	}

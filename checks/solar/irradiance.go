@@ -94,9 +94,20 @@ func ClearSkyDaily(latitude, longitude float64, year int, month time.Month, day 
 	steps := int(24 * time.Hour / clearSkyStep)
 	hours := clearSkyStep.Hours()
 	total := 0.0
+	// Steps with the Sun well below the horizon give nothing; a cheap
+	// estimate (Cooper's declination, the mean-time hour angle) finds them
+	// without the full SPA. Six degrees below is far outside that
+	// estimate's error.
+	decl := DeclinationCooper(DayOfYear(start.Add(12 * time.Hour)))
+	sinLat, cosLat := sind(latitude), cosd(latitude)
+	sinDec, cosDec := sind(decl), cosd(decl)
 	for i := range steps {
-		t := start.Add(time.Duration(i)*clearSkyStep + clearSkyStep/2)
-		total += ClearSkyHaurwitz(SPA(t, o).Zenith) * hours
+		mid := time.Duration(i)*clearSkyStep + clearSkyStep/2
+		w := (mid.Hours() - 12) * 15
+		if sinLat*sinDec+cosLat*cosDec*cosd(w) < -0.1 {
+			continue
+		}
+		total += ClearSkyHaurwitz(SPA(start.Add(mid), o).Zenith) * hours
 	}
 	return total
 }
