@@ -106,6 +106,9 @@ var labels sync.Map
 // loadSourceInstance loads the package in dir, a slash path relative to
 // the source's module root.
 func loadSourceInstance(dir string, src *Source) (*build.Instance, []string, error) {
+	if err := checkSourceSizes(src, DefaultLimits); err != nil {
+		return nil, nil, err
+	}
 	root := src.root()
 	labels.Store(root, src.Label)
 	overlay := make(map[string]load.Source, len(src.Files))
@@ -133,6 +136,13 @@ func loadInstance(dir string) (*build.Instance, []string, error) {
 	}
 	cfg := &load.Config{Dir: abs, Registry: refusingRegistry{}}
 	arg := "."
+	sizeRoot := abs
+	if root := moduleRoot(abs); root != "" {
+		sizeRoot = root
+	}
+	if err := checkSizes(sizeRoot, DefaultLimits); err != nil {
+		return nil, nil, err
+	}
 	if root := moduleRoot(abs); root != "" {
 		rel, err := filepath.Rel(root, abs)
 		if err != nil {
@@ -142,7 +152,11 @@ func loadInstance(dir string) (*build.Instance, []string, error) {
 		arg = "./" + filepath.ToSlash(rel)
 	}
 	insts := load.Instances([]string{arg}, cfg)
-	return checkInstance(dir, insts, os.ReadFile)
+	inst, files, err := checkInstance(dir, insts, os.ReadFile)
+	if err == nil {
+		err = checkInside(sizeRoot, files)
+	}
+	return inst, files, err
 }
 
 func checkInstance(dir string, insts []*build.Instance, read func(string) ([]byte, error)) (*build.Instance, []string, error) {

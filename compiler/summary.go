@@ -15,8 +15,21 @@ func Compile(dir string) (*result.Result, *Design, error) {
 	return CompileFrom(dir, nil)
 }
 
-// CompileFrom is Compile reading from src (see LoadFrom).
+// CompileFrom is Compile reading from src (see LoadFrom), within
+// DefaultLimits.
 func CompileFrom(dir string, src *Source) (*result.Result, *Design, error) {
+	type both struct {
+		r *result.Result
+		d *Design
+	}
+	b, err := withTimeout(dir, DefaultLimits, func() (both, error) {
+		r, d, err := compile(dir, src)
+		return both{r, d}, err
+	})
+	return b.r, b.d, err
+}
+
+func compile(dir string, src *Source) (*result.Result, *Design, error) {
 	d, err := LoadFrom(dir, src)
 	if err != nil {
 		return nil, nil, err

@@ -7,6 +7,8 @@ import (
 	"os"
 
 	"github.com/spf13/cobra"
+
+	"github.com/ampwright/ampwright/compiler"
 )
 
 // Exit statuses.
@@ -18,8 +20,9 @@ const (
 
 // Flag names.
 const (
-	flagFormat = "format"
-	flagOut    = "out"
+	flagFormat  = "format"
+	flagOut     = "out"
+	flagTimeout = "timeout"
 )
 
 // exitError carries an exit status through cobra.
@@ -87,6 +90,8 @@ nor the standards and local rules that apply to the boat.`,
 	}
 	root.SetOut(stdout)
 	root.SetErr(stderr)
+	root.PersistentFlags().DurationVar(&compiler.DefaultLimits.Timeout, flagTimeout, compiler.DefaultLimits.Timeout,
+		"give up on a design that takes longer than this to compile")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
 		return usageError("%v\nRun '%s --help' for usage.", err, c.CommandPath())
 	})
@@ -96,6 +101,7 @@ nor the standards and local rules that apply to the boat.`,
 		newDiffCmd(),
 		newFleetCmd(),
 		newExplainCmd(),
+		newPackCmd(),
 		newSchemaCmd(),
 		newVersionCmd(),
 	)
