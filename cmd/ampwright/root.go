@@ -101,7 +101,6 @@ nor the standards and local rules that apply to the boat.`,
 		newDiffCmd(),
 		newFleetCmd(),
 		newExplainCmd(),
-		newPackCmd(),
 		newSchemaCmd(),
 		newVersionCmd(),
 	)
