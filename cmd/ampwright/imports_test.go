@@ -22,6 +22,10 @@ var allowedImports = map[string][]string{
 	"schema/unit":   {},
 }
 
+// reportLibs are the only modules outside the standard library that
+// package report may import: the PDF writer and the Go fonts.
+var reportLibs = []string{"github.com/go-pdf/fpdf", "golang.org/x/image/font/"}
+
 // stdOnly are the packages that may import nothing but the standard
 // library: the result contract, so any tool can read it, and the unit
 // parser.
@@ -55,8 +59,20 @@ func TestImportFlow(t *testing.T) {
 			if pkg == "report" && strings.HasPrefix(imp, "cuelang.org/") {
 				t.Errorf("report imports %s; report never sees CUE", imp)
 			}
+			if pkg == "report" && strings.Contains(strings.SplitN(imp, "/", 2)[0], ".") && !hasPrefix(imp, reportLibs) {
+				t.Errorf("report imports %s; it may use only the standard library, result and %s", imp, strings.Join(reportLibs, ", "))
+			}
 		}
 	}
+}
+
+func hasPrefix(s string, prefixes []string) bool {
+	for _, p := range prefixes {
+		if strings.HasPrefix(s, p) {
+			return true
+		}
+	}
+	return false
 }
 
 func contains(list []string, s string) bool {

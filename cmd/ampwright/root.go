@@ -101,6 +101,7 @@ nor the standards and local rules that apply to the boat.`,
 		newDiffCmd(),
 		newFleetCmd(),
 		newExplainCmd(),
+		newPackCmd(),
 		newSchemaCmd(),
 		newVersionCmd(),
 	)

@@ -1,0 +1,162 @@
+package main
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"github.com/ampwright/ampwright/report"
+	"github.com/ampwright/ampwright/result"
+)
+
+const (
+	flagPaper       = "paper"
+	flagRequirePass = "require-pass"
+)
+
+type packOptions struct {
+	out         string
+	paper       string
+	requirePass bool
+	stdout      io.Writer
+	stderr      io.Writer
+}
+
+func newPackCmd() *cobra.Command {
+	opts := &packOptions{}
+	c := &cobra.Command{
+		Use:   "pack DESIGN -o FILE.pdf",
+		Short: "Print a design's calculation pack as a PDF",
+		Long: `pack compiles a design, runs every check and writes its calculation pack:
+a PDF with a cover (the verdict and a sign-off block), the findings, the
+energy budget, the solar harvest and monthly balance, the design voyage, the
+wiring schedule, charts, a one-line diagram, calculation sheets for every
+figure, the bill of materials and the cautions.
+
+A pack of a design that fails a check is still written, marked NOT APPROVED
+on every page, and pack exits 1; with --require-pass it is not written at
+all. An invalid design or a file that cannot be written leaves any earlier
+FILE as it was: the pack is written to a temporary file and renamed.
+
+The same inputs give the same bytes. The pack is dated by SOURCE_DATE_EPOCH
+(Unix seconds) when it is set, else by the design's git commit time, else
+not dated (its PDF dates are then ` + report.PackEpoch.Format("2006-01-02") + `).
+
+Exit status: 0 when every check passes or warns, 1 when a check fails,
+2 on an input or usage error or when FILE cannot be written.`,
+		Example: `  ampwright pack designs/hulls/dunnock -o dunnock.pdf
+  ampwright pack designs/hulls/marram --paper letter -o marram.pdf
+  ampwright pack --require-pass designs/hulls/brackenwell -o brackenwell.pdf
+  SOURCE_DATE_EPOCH=1767225600 ampwright pack designs/hulls/dunnock -o dunnock.pdf`,
+		Args: cobra.ExactArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			opts.stdout, opts.stderr = cmd.OutOrStdout(), cmd.ErrOrStderr()
+			return runPack(opts, args[0])
+		},
+	}
+	c.Flags().StringVarP(&opts.out, flagOut, "o", "", "the PDF file to write (required)")
+	c.Flags().StringVar(&opts.paper, flagPaper, "a4", "paper size: a4|letter")
+	c.Flags().BoolVar(&opts.requirePass, flagRequirePass, false, "write no pack when a check fails")
+	_ = c.MarkFlagFilename(flagOut, "pdf")
+	_ = c.RegisterFlagCompletionFunc(flagPaper, func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
+		return []string{"a4", "letter"}, cobra.ShellCompDirectiveNoFileComp
+	})
+	return c
+}
+
+func runPack(opts *packOptions, dir string) error {
+	if opts.out == "" {
+		return usageError("pack needs --%s FILE.pdf", flagOut)
+	}
+	var paper string
+	switch strings.ToLower(opts.paper) {
+	case "a4":
+		paper = "A4"
+	case "letter":
+		paper = "Letter"
+	default:
+		return usageError("--%s %q: expected a4|letter", flagPaper, opts.paper)
+	}
+	date, err := sourceDateEpoch()
+	if err != nil {
+		return usageError("%v", err)
+	}
+
+	r, err := compileOne(dir)
+	if err != nil {
+		fmt.Fprintf(opts.stderr, "%s: %d input error(s)\n", dir, len(r.Problems))
+		if err := report.Problems(opts.stderr, r.Problems); err != nil {
+			return err
+		}
+		return &exitError{code: exitInput}
+	}
+	c := r.Count()
+	if c.Fail > 0 && opts.requirePass {
+		fmt.Fprintf(opts.stderr, "%s: %s; no pack written (--%s)\n", dir, failSummary(r), flagRequirePass)
+		return &exitError{code: exitFail}
+	}
+
+	var b bytes.Buffer
+	if err := report.Pack(&b, r, report.PackOptions{PageSize: paper, Date: date}); err != nil {
+		return &exitError{code: exitInput, err: err}
+	}
+	if err := writeFileAtomic(opts.out, b.Bytes()); err != nil {
+		return &exitError{code: exitInput, err: fmt.Errorf("cannot write %s: %v", opts.out, pathErr(err))}
+	}
+	if c.Fail > 0 {
+		fmt.Fprintf(opts.stdout, "wrote %s: NOT APPROVED, %s\n", opts.out, failSummary(r))
+		return &exitError{code: exitFail}
+	}
+	fmt.Fprintf(opts.stdout, "wrote %s: %d checks pass, %d warn\n", opts.out, c.Pass, c.Warn)
+	return nil
+}
+
+// failSummary says how many checks fail and which.
+func failSummary(r *result.Result) string {
+	var names []string
+	for _, f := range r.Checks {
+		if f.Status == result.Fail {
+			names = append(names, f.ID+" "+f.Subject)
+		}
+	}
+	n := len(names)
+	if len(names) > 4 {
+		names = append(names[:4], "…")
+	}
+	word := "checks fail"
+	if n == 1 {
+		word = "check fails"
+	}
+	return fmt.Sprintf("%d %s (%s)", n, word, strings.Join(names, ", "))
+}
+
+// sourceDateEpoch is the time SOURCE_DATE_EPOCH gives, or zero when it is
+// not set.
+func sourceDateEpoch() (time.Time, error) {
+	s, ok := os.LookupEnv("SOURCE_DATE_EPOCH")
+	if !ok || s == "" {
+		return time.Time{}, nil
+	}
+	n, err := strconv.ParseInt(s, 10, 64)
+	if err != nil || n < 0 {
+		return time.Time{}, fmt.Errorf("SOURCE_DATE_EPOCH %q: expected Unix seconds", s)
+	}
+	return time.Unix(n, 0).UTC(), nil
+}
+
+// pathErr drops the temporary file's name from an error about it.
+func pathErr(err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}

@@ -1,0 +1,381 @@
+package report
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+	"unicode/utf16"
+
+	"rsc.io/pdf"
+
+	"github.com/ampwright/ampwright/result"
+)
+
+// The fixtures in testdata are the results of the example hulls, as
+// `ampwright check --format json` prints them; package report may not run
+// the compiler itself. Refresh them from the repository root with
+//
+//	for h in dunnock marram brackenwell; do
+//		go run ./cmd/ampwright check --format json designs/hulls/$h > report/testdata/$h.json
+//	done
+//
+// (the command exits 1 for brackenwell, which fails two checks).
+var hulls = []string{"dunnock", "marram", "brackenwell"}
+
+func fixture(t *testing.T, hull string) *result.Result {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join("testdata", hull+".json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var r result.Result
+	if err := json.Unmarshal(b, &r); err != nil {
+		t.Fatalf("%s: %v", hull, err)
+	}
+	return &r
+}
+
+func render(t *testing.T, r *result.Result, opts PackOptions) []byte {
+	t.Helper()
+	var b bytes.Buffer
+	if err := Pack(&b, r, opts); err != nil {
+		t.Fatal(err)
+	}
+	return b.Bytes()
+}
+
+// parsed is a PDF read back: each page's text and media box.
+type parsed struct {
+	pages []string
+	boxes []string
+	info  pdf.Value
+}
+
+func (p parsed) all() string { return strings.Join(p.pages, "\n") }
+
+// readPDF parses a PDF with rsc.io/pdf and extracts each page's text by
+// interpreting its content stream. The pack's fonts are embedded UTF-8
+// (Type0, Identity-H) fonts, whose strings fpdf writes as UTF-16BE code
+// units, so the strings shown by Tj and TJ are decoded as UTF-16BE; each
+// shown string is one line or cell of text, joined here by spaces, with
+// runs of whitespace collapsed.
+func readPDF(t *testing.T, b []byte) parsed {
+	t.Helper()
+	r, err := pdf.NewReader(bytes.NewReader(b), int64(len(b)))
+	if err != nil {
+		t.Fatalf("the pack does not parse as PDF: %v", err)
+	}
+	var p parsed
+	p.info = r.Trailer().Key("Info")
+	for i := 1; i <= r.NumPage(); i++ {
+		pg := r.Page(i)
+		var shown []string
+		show := func(v pdf.Value) {
+			if v.Kind() == pdf.String {
+				shown = append(shown, utf16be(v.RawString()))
+			}
+		}
+		contents := pg.V.Key("Contents")
+		streams := []pdf.Value{contents}
+		if contents.Kind() == pdf.Array {
+			streams = nil
+			for j := 0; j < contents.Len(); j++ {
+				streams = append(streams, contents.Index(j))
+			}
+		}
+		for _, s := range streams {
+			pdf.Interpret(s, func(stk *pdf.Stack, op string) {
+				n := stk.Len()
+				args := make([]pdf.Value, n)
+				for k := n - 1; k >= 0; k-- {
+					args[k] = stk.Pop()
+				}
+				switch op {
+				case "Tj", "'":
+					if n > 0 {
+						show(args[n-1])
+					}
+				case "TJ":
+					if n > 0 && args[n-1].Kind() == pdf.Array {
+						a := args[n-1]
+						var parts []string
+						for k := 0; k < a.Len(); k++ {
+							if a.Index(k).Kind() == pdf.String {
+								parts = append(parts, utf16be(a.Index(k).RawString()))
+							}
+						}
+						shown = append(shown, strings.Join(parts, ""))
+					}
+				}
+			})
+		}
+		p.pages = append(p.pages, strings.Join(strings.Fields(strings.Join(shown, " ")), " "))
+		p.boxes = append(p.boxes, mediaBox(pg))
+	}
+	return p
+}
+
+// mediaBox is a page's media box, inherited from the page tree, as
+// "[x0 y0 x1 y1]".
+func mediaBox(pg pdf.Page) string {
+	for v := pg.V; !v.IsNull(); v = v.Key("Parent") {
+		if b := v.Key("MediaBox"); b.Kind() == pdf.Array {
+			var xs []string
+			for i := 0; i < b.Len(); i++ {
+				xs = append(xs, fmt.Sprintf("%g", b.Index(i).Float64()))
+			}
+			return "[" + strings.Join(xs, " ") + "]"
+		}
+	}
+	return "none"
+}
+
+func utf16be(s string) string {
+	if len(s)%2 != 0 {
+		return "\uFFFD" + s
+	}
+	u := make([]uint16, len(s)/2)
+	for i := range u {
+		u[i] = uint16(s[2*i])<<8 | uint16(s[2*i+1])
+	}
+	return string(utf16.Decode(u))
+}
+
+func TestPackExamples(t *testing.T) {
+	t.Parallel()
+	for _, hull := range hulls {
+		t.Run(hull, func(t *testing.T) {
+			r := fixture(t, hull)
+			p := readPDF(t, render(t, r, PackOptions{}))
+			n := len(p.pages)
+			if n < 8 || n > 60 {
+				t.Errorf("%d pages, want 8 to 60", n)
+			}
+			text := p.all()
+			want := []string{r.Design.Name, r.Design.Hull, r.Design.InputsHash, "qualified marine electrician",
+				"Sign-off", "Prepared", "Checked", "Approved", r.Design.Designer, r.Design.Checker, r.Design.Approver,
+				"Wiring schedule", "Calculation sheets", "Bill of materials", "Cautions", "thermal runaway", "Ignition protection",
+				r.Rulebook.Name, "edition " + r.Rulebook.Edition}
+			for _, w := range r.Wiring {
+				want = append(want, w.Name)
+			}
+			c := r.Count()
+			for _, f := range r.Checks {
+				if f.Status == result.Fail {
+					want = append(want, f.ID+" · "+f.Subject, f.Change)
+				}
+			}
+			for _, f := range r.Figures {
+				want = append(want, f.ID+" · "+f.Subject)
+			}
+			for _, w := range want {
+				if !strings.Contains(text, w) {
+					t.Errorf("the pack's text lacks %q", w)
+				}
+			}
+			verdict := fmt.Sprintf("NOT APPROVED — %d checks fail", c.Fail)
+			if c.Fail > 0 {
+				if !strings.Contains(p.pages[0], verdict) {
+					t.Errorf("the cover lacks %q: %s", verdict, p.pages[0])
+				}
+				for i, pg := range p.pages[1:] {
+					if !strings.Contains(pg, "NOT APPROVED") {
+						t.Errorf("page %d is not marked NOT APPROVED", i+2)
+					}
+				}
+			} else if strings.Contains(text, "NOT APPROVED") {
+				t.Errorf("a passing design's pack says NOT APPROVED")
+			}
+			short := r.Design.InputsHash[:12]
+			rev := "rev not in git"
+			if len(r.Design.Revision) >= 7 {
+				rev = "rev " + r.Design.Revision[:7]
+			}
+			for i, pg := range p.pages {
+				for _, w := range []string{fmt.Sprintf("page %d of %d", i+1, n), r.Design.Name, r.Design.Hull, "inputs " + short, rev} {
+					if !strings.Contains(pg, w) {
+						t.Errorf("page %d lacks %q in its footer", i+1, w)
+					}
+				}
+			}
+			// No placeholder is left unresolved.
+			for _, ph := range []string{"{nb}", "{p:"} {
+				if strings.Contains(text, ph) {
+					t.Errorf("the pack's text has an unresolved %q", ph)
+				}
+			}
+		})
+	}
+}
+
+func TestPackDeterministic(t *testing.T) {
+	t.Parallel()
+	r := fixture(t, "marram")
+	a := render(t, r, PackOptions{})
+	b := render(t, fixture(t, "marram"), PackOptions{})
+	if !bytes.Equal(a, b) {
+		t.Fatal("two renders of the same result differ")
+	}
+	d := time.Date(2031, 5, 6, 7, 8, 9, 0, time.UTC)
+	r = fixture(t, "dunnock")
+	c := render(t, r, PackOptions{Date: d})
+	if bytes.Equal(render(t, r, PackOptions{}), c) {
+		t.Error("a different date gives the same bytes")
+	}
+	p := readPDF(t, c)
+	if got := p.info.Key("CreationDate").Text(); !strings.HasPrefix(got, "D:20310506070809") {
+		t.Errorf("CreationDate = %q, want the given date", got)
+	}
+	if !strings.Contains(p.pages[0], "2031-05-06") {
+		t.Error("the cover does not show the pack date")
+	}
+}
+
+func TestPackInputsHash(t *testing.T) {
+	t.Parallel()
+	r := fixture(t, "dunnock")
+	old := r.Design.InputsHash
+	a := render(t, r, PackOptions{})
+	r.Design.InputsHash = "89abcdef01234567" + old[16:]
+	b := render(t, r, PackOptions{})
+	if bytes.Equal(a, b) {
+		t.Fatal("changing the inputs hash does not change the pack")
+	}
+	p := readPDF(t, b)
+	if !strings.Contains(p.pages[0], r.Design.InputsHash) {
+		t.Error("the cover lacks the new inputs hash")
+	}
+	if strings.Contains(p.all(), old[:12]) {
+		t.Error("the old inputs hash is still in the pack")
+	}
+	for i, pg := range p.pages {
+		if !strings.Contains(pg, "inputs 89abcdef0123") {
+			t.Errorf("page %d's footer lacks the new short hash", i+1)
+		}
+	}
+}
+
+func TestPackPaper(t *testing.T) {
+	t.Parallel()
+	r := fixture(t, "dunnock")
+	a4 := readPDF(t, render(t, r, PackOptions{PageSize: "A4"}))
+	letter := readPDF(t, render(t, r, PackOptions{PageSize: "Letter"}))
+	if got, want := a4.boxes[0], "[0 0 595.28 841.89]"; got != want {
+		t.Errorf("A4 media box %s, want %s", got, want)
+	}
+	if got, want := letter.boxes[0], "[0 0 612 792]"; got != want {
+		t.Errorf("Letter media box %s, want %s", got, want)
+	}
+	landscape := 0
+	for i, pg := range a4.pages {
+		if a4.boxes[i] == "[0 0 841.89 595.28]" {
+			landscape++
+			if !strings.Contains(pg, "One-line diagram") {
+				t.Errorf("page %d is landscape but not the one-line diagram", i+1)
+			}
+		}
+	}
+	if landscape == 0 {
+		t.Error("the one-line diagram is not on a landscape page")
+	}
+	if err := Pack(&bytes.Buffer{}, r, PackOptions{PageSize: "A3"}); err == nil {
+		t.Error("page size A3 accepted")
+	}
+}
+
+func TestPackRevision(t *testing.T) {
+	t.Parallel()
+	r := fixture(t, "dunnock")
+	r.Design.Dirty = true
+	p := readPDF(t, render(t, r, PackOptions{}))
+	if !strings.Contains(p.pages[0], "uncommitted changes") {
+		t.Error("a dirty revision is not marked on the cover")
+	}
+	if !strings.Contains(p.pages[1], "+uncommitted") {
+		t.Error("a dirty revision is not marked in the footer")
+	}
+	r.Design.Revision, r.Design.Dirty, r.Design.CommitTime = "", false, 0
+	p = readPDF(t, render(t, r, PackOptions{}))
+	if !strings.Contains(p.pages[0], "not in git") {
+		t.Error("a design outside git is not marked so")
+	}
+	if !strings.Contains(p.pages[0], "not dated") {
+		t.Error("a pack with no date and no commit time does not say it is undated")
+	}
+	if got := p.info.Key("CreationDate").Text(); !strings.HasPrefix(got, "D:20000101000000") {
+		t.Errorf("CreationDate = %q, want PackEpoch", got)
+	}
+}
+
+func TestPackRefusesProblems(t *testing.T) {
+	r := &result.Result{Problems: []result.Problem{{Message: "broken"}}}
+	if err := Pack(&bytes.Buffer{}, r, PackOptions{}); err == nil {
+		t.Error("a result with input errors made a pack")
+	}
+}
+
+// TestPackLarge draws a design far larger than the examples, with long
+// names and text the fonts cannot show: the wiring schedule breaks across
+// pages with its header repeated and the one-line diagram continues on
+// further pages.
+func TestPackLarge(t *testing.T) {
+	t.Parallel()
+	r := fixture(t, "marram")
+	base := r.Wiring
+	long := strings.Repeat("very-long-conductor-name-", 4)
+	for i := 0; i < 90; i++ {
+		w := base[len(base)-1]
+		w.Name = fmt.Sprintf("extra-%02d", i)
+		w.From = "dc-panel"
+		if i%3 != 0 {
+			w.From = fmt.Sprintf("load-%02d", i-1)
+		}
+		w.To = fmt.Sprintf("load-%02d", i)
+		if i == 7 {
+			w.To = long + "\x07 \U0001F6A2 end"
+		}
+		r.Wiring = append(r.Wiring, w)
+	}
+	r.Design.Name = "A vessel whose name is much too long for any one line of the cover page, to see it is cut short"
+	p := readPDF(t, render(t, r, PackOptions{}))
+	heads := 0
+	diagram := 0
+	for i, pg := range p.pages {
+		if strings.Contains(pg, "run from → to role") {
+			heads++
+		}
+		if strings.Contains(pg, "One-line diagram") && p.boxes[i] == "[0 0 841.89 595.28]" {
+			diagram++
+		}
+	}
+	if heads < 2 {
+		t.Errorf("the wiring schedule's header appears on %d pages, want it repeated", heads)
+	}
+	if diagram < 2 {
+		t.Errorf("the one-line diagram takes %d pages, want it to continue", diagram)
+	}
+	if len(p.pages) > 120 {
+		t.Errorf("%d pages", len(p.pages))
+	}
+}
+
+func TestPackBOMIncomplete(t *testing.T) {
+	t.Parallel()
+	r := fixture(t, "dunnock")
+	if r.BOM == nil || len(r.BOM.Lines) < 2 {
+		t.Fatal("the fixture has no bill of materials")
+	}
+	for i := range 2 {
+		r.BOM.Lines[i].UnitPrice, r.BOM.Lines[i].Total = nil, nil
+	}
+	r.BOM.Complete = false
+	text := readPDF(t, render(t, r, PackOptions{})).all()
+	if !strings.Contains(text, "Total incomplete: 2 lines without a price") {
+		t.Error("an incomplete total is not marked so")
+	}
+}

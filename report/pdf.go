@@ -1,0 +1,628 @@
+package report
+
+// pdf.go is the only file of package report that calls fpdf: a thin
+// drawing layer of text, wrapped and truncated lines, rules, boxes, lines,
+// polylines and tables whose header repeats on every page they run onto.
+// fpdf is archived upstream; keeping it here keeps a replacement small.
+// Lengths are millimetres from the page's top left corner, font sizes
+// points.
+
+import (
+	"bytes"
+	"fmt"
+	"strings"
+	"time"
+	"unicode"
+
+	"github.com/go-pdf/fpdf"
+	"golang.org/x/image/font/gofont/gobold"
+	"golang.org/x/image/font/gofont/gomono"
+	"golang.org/x/image/font/gofont/goregular"
+	"golang.org/x/image/font/sfnt"
+)
+
+// rgb is a colour.
+type rgb struct{ r, g, b int }
+
+// The palette: plain ink, greys for rules and fills, and one colour for
+// each verdict, dark enough to read on white and distinct in grey print.
+var (
+	colInk     = rgb{20, 20, 20}
+	colMuted   = rgb{90, 90, 90}
+	colRule    = rgb{150, 150, 150}
+	colGrid    = rgb{215, 215, 215}
+	colShade   = rgb{238, 238, 238}
+	colWhite   = rgb{255, 255, 255}
+	colFail    = rgb{170, 20, 20}
+	colFailBg  = rgb{251, 226, 226}
+	colWarn    = rgb{150, 95, 0}
+	colWarnBg  = rgb{253, 240, 205}
+	colPass    = rgb{20, 105, 45}
+	colPassBg  = rgb{222, 240, 226}
+	colAccent  = rgb{40, 80, 140}
+	colAccent2 = rgb{120, 160, 205}
+	colAccent3 = rgb{190, 130, 60}
+)
+
+// fontStyle names one of the three embedded faces.
+type fontStyle int
+
+const (
+	regular fontStyle = iota
+	bold
+	mono
+)
+
+// mmPerPt converts points to millimetres.
+const mmPerPt = 25.4 / 72
+
+// pt is a point on the page.
+type pt struct{ x, y float64 }
+
+// doc is a PDF document being drawn, with a flow cursor y for content
+// that runs down the page.
+type doc struct {
+	f          *fpdf.Fpdf
+	paper      fpdf.SizeType
+	margin     float64 // left and right
+	top        float64 // where content starts below the header
+	bottomGap  float64 // space kept for the footer
+	y          float64
+	landscape  bool
+	header     func() // drawn on every page
+	footer     func()
+	glyphs     *sfnt.Font
+	glyphBuf   sfnt.Buffer
+	haveGlyph  map[rune]bool
+	inDecorate bool
+}
+
+// newDoc starts a document on paper "A4" or "Letter", dated date.
+func newDoc(paper string, date time.Time) (*doc, error) {
+	var size fpdf.SizeType
+	switch strings.ToLower(paper) {
+	case "", "a4":
+		size = fpdf.SizeType{Wd: 210, Ht: 297}
+	case "letter":
+		size = fpdf.SizeType{Wd: 215.9, Ht: 279.4}
+	default:
+		return nil, fmt.Errorf("page size %q: expected A4 or Letter", paper)
+	}
+	f := fpdf.NewCustom(&fpdf.InitType{OrientationStr: "P", UnitStr: "mm", Size: size})
+	f.AddUTF8FontFromBytes("go", "", goregular.TTF)
+	f.AddUTF8FontFromBytes("go", "B", gobold.TTF)
+	f.AddUTF8FontFromBytes("gomono", "", gomono.TTF)
+	date = date.UTC()
+	f.SetCreationDate(date)
+	f.SetModificationDate(date)
+	f.SetCatalogSort(true)
+	f.SetCompression(true)
+	f.SetAutoPageBreak(false, 0)
+	f.SetMargins(0, 0, 0)
+	f.SetCellMargin(0)
+	f.AliasNbPages("{nb}")
+	f.SetProducer("ampwright", true)
+	f.SetCreator("ampwright pack", true)
+	f.SetLang("en")
+	glyphs, err := sfnt.Parse(goregular.TTF)
+	if err != nil {
+		return nil, err
+	}
+	d := &doc{f: f, paper: size, margin: 15, top: 20, bottomGap: 16, glyphs: glyphs, haveGlyph: map[rune]bool{}}
+	f.SetHeaderFunc(func() { d.decorate(d.header) })
+	f.SetFooterFunc(func() { d.decorate(d.footer) })
+	return d, f.Error()
+}
+
+func (d *doc) decorate(fn func()) {
+	if fn == nil || d.inDecorate {
+		return
+	}
+	d.inDecorate = true
+	fn()
+	d.inDecorate = false
+}
+
+// setInfo sets the document's title, subject and author.
+func (d *doc) setInfo(title, subject, author string) {
+	d.f.SetTitle(d.clean(title), true)
+	d.f.SetSubject(d.clean(subject), true)
+	if author != "" {
+		d.f.SetAuthor(d.clean(author), true)
+	}
+}
+
+// addPage starts a page, landscape or portrait, and puts the cursor at
+// the top of its content area.
+func (d *doc) addPage(landscape bool) {
+	d.landscape = landscape
+	o := "P"
+	if landscape {
+		o = "L"
+	}
+	d.f.AddPageFormat(o, d.paper)
+	d.y = d.top
+}
+
+// page is the current page number.
+func (d *doc) page() int { return d.f.PageNo() }
+
+func (d *doc) pageW() float64 { w, _ := d.f.GetPageSize(); return w }
+func (d *doc) pageH() float64 { _, h := d.f.GetPageSize(); return h }
+
+// left, right and width are the content area's horizontal bounds.
+func (d *doc) left() float64  { return d.margin }
+func (d *doc) right() float64 { return d.pageW() - d.margin }
+func (d *doc) width() float64 { return d.pageW() - 2*d.margin }
+
+// bottom is the lowest y content may reach.
+func (d *doc) bottom() float64 { return d.pageH() - d.bottomGap }
+
+// need starts a new page, of the same orientation, unless h fits below
+// the cursor. It reports whether it did.
+func (d *doc) need(h float64) bool {
+	if d.y+h <= d.bottom() {
+		return false
+	}
+	d.addPage(d.landscape)
+	return true
+}
+
+// alias makes every occurrence of name drawn anywhere in the document
+// read value instead, once the document is written.
+func (d *doc) alias(name, value string) { d.f.RegisterAlias(name, value) }
+
+// bytes closes the document and returns it.
+func (d *doc) bytes() ([]byte, error) {
+	var b bytes.Buffer
+	if err := d.f.Output(&b); err != nil {
+		return nil, err
+	}
+	return b.Bytes(), nil
+}
+
+// font selects a face and size.
+func (d *doc) font(s fontStyle, size float64) {
+	switch s {
+	case bold:
+		d.f.SetFont("go", "B", size)
+	case mono:
+		d.f.SetFont("gomono", "", size)
+	default:
+		d.f.SetFont("go", "", size)
+	}
+}
+
+// lineH is the line pitch for the current font size, leading included.
+func (d *doc) lineH() float64 {
+	pt, _ := d.f.GetFontSize()
+	return pt * mmPerPt * 1.22
+}
+
+func (d *doc) textColor(c rgb) { d.f.SetTextColor(c.r, c.g, c.b) }
+func (d *doc) drawColor(c rgb) { d.f.SetDrawColor(c.r, c.g, c.b) }
+func (d *doc) fillColor(c rgb) { d.f.SetFillColor(c.r, c.g, c.b) }
+
+// clean makes design text safe to draw: control characters become spaces
+// and runes the embedded fonts have no glyph for become "?", so that
+// nothing draws as an empty box or moves the text.
+func (d *doc) clean(s string) string {
+	ok := true
+	for _, r := range s {
+		if r < 0x20 || r == 0x7f || (r >= 0x80 && !d.hasGlyph(r)) {
+			ok = false
+			break
+		}
+	}
+	if ok {
+		return s
+	}
+	var b strings.Builder
+	for _, r := range s {
+		switch {
+		case r == '\n':
+			b.WriteRune('\n')
+		case unicode.IsControl(r):
+			b.WriteRune(' ')
+		case r >= 0x80 && !d.hasGlyph(r):
+			b.WriteRune('?')
+		default:
+			b.WriteRune(r)
+		}
+	}
+	return b.String()
+}
+
+func (d *doc) hasGlyph(r rune) bool {
+	ok, seen := d.haveGlyph[r]
+	if !seen {
+		g, err := d.glyphs.GlyphIndex(&d.glyphBuf, r)
+		ok = err == nil && g != 0
+		d.haveGlyph[r] = ok
+	}
+	return ok
+}
+
+// textW is the width of s in the current font.
+func (d *doc) textW(s string) float64 { return d.f.GetStringWidth(d.clean(s)) }
+
+// text draws s with its baseline at y.
+func (d *doc) text(x, y float64, s string) {
+	d.f.Text(x, y, d.clean(strings.ReplaceAll(s, "\n", " ")))
+}
+
+// textIn draws s on one line within the box x, y, w, h, aligned "L", "C"
+// or "R" and centred vertically, truncated with an ellipsis to fit.
+func (d *doc) textIn(x, y, w, h float64, s, align string) {
+	s = d.fit(s, w)
+	d.f.SetXY(x, y)
+	d.f.CellFormat(w, h, s, "", 0, align+"M", false, 0, "")
+}
+
+// fit truncates s with an ellipsis to at most w wide.
+func (d *doc) fit(s string, w float64) string {
+	s = d.clean(strings.ReplaceAll(s, "\n", " "))
+	if d.f.GetStringWidth(s) <= w {
+		return s
+	}
+	r := []rune(s)
+	lo, hi := 0, len(r)
+	for lo < hi {
+		mid := (lo + hi + 1) / 2
+		if d.f.GetStringWidth(string(r[:mid])+"…") <= w {
+			lo = mid
+		} else {
+			hi = mid - 1
+		}
+	}
+	return strings.TrimRight(string(r[:lo]), " ") + "…"
+}
+
+// wrap breaks s into lines at most w wide in the current font: at spaces
+// where it can, after "/", "-", "," or "." in a long word, and anywhere in
+// a word longer than a line. Newlines in s are kept.
+func (d *doc) wrap(s string, w float64) []string {
+	s = d.clean(s)
+	var lines []string
+	for _, para := range strings.Split(s, "\n") {
+		lines = append(lines, d.wrapPara(para, w)...)
+	}
+	if len(lines) == 0 {
+		lines = []string{""}
+	}
+	return lines
+}
+
+func (d *doc) wrapPara(s string, w float64) []string {
+	words := strings.Fields(s)
+	if len(words) == 0 {
+		return []string{""}
+	}
+	var lines []string
+	cur := ""
+	for _, word := range words {
+		try := word
+		if cur != "" {
+			try = cur + " " + word
+		}
+		if d.f.GetStringWidth(try) <= w {
+			cur = try
+			continue
+		}
+		if cur != "" {
+			lines = append(lines, cur)
+			cur = ""
+		}
+		// The word alone: split it if it is wider than a line.
+		for d.f.GetStringWidth(word) > w {
+			head, tail := d.splitWord(word, w)
+			lines = append(lines, head)
+			word = tail
+		}
+		cur = word
+	}
+	if cur != "" {
+		lines = append(lines, cur)
+	}
+	return lines
+}
+
+// splitWord cuts a word too wide for w: after the last break character
+// that fits, else after the last rune that fits.
+func (d *doc) splitWord(word string, w float64) (string, string) {
+	r := []rune(word)
+	n := 1
+	for n < len(r) && d.f.GetStringWidth(string(r[:n+1])) <= w {
+		n++
+	}
+	for i := n; i > n/2 && i > 0; i-- {
+		if strings.ContainsRune("/-,._:", r[i-1]) {
+			return string(r[:i]), string(r[i:])
+		}
+	}
+	return string(r[:n]), string(r[n:])
+}
+
+// para draws wrapped text across x..x+w starting at the cursor, moving it
+// down, with a page break between lines when needed.
+func (d *doc) para(x, w float64, s string) {
+	lh := d.lineH()
+	for _, l := range d.wrap(s, w) {
+		d.need(lh)
+		d.text(x, d.y+lh*0.78, l)
+		d.y += lh
+	}
+}
+
+// lineStyle is how a line is stroked.
+type lineStyle struct {
+	w     float64 // width, mm
+	c     rgb
+	dash  float64 // dash length, mm; 0 for solid
+	round bool    // round caps and joins
+}
+
+func (d *doc) stroke(s lineStyle) {
+	d.f.SetLineWidth(s.w)
+	d.drawColor(s.c)
+	if s.dash > 0 {
+		d.f.SetDashPattern([]float64{s.dash, s.dash * 0.7}, 0)
+	} else {
+		d.f.SetDashPattern([]float64{}, 0)
+	}
+	if s.round {
+		d.f.SetLineCapStyle("round")
+		d.f.SetLineJoinStyle("round")
+	} else {
+		d.f.SetLineCapStyle("butt")
+		d.f.SetLineJoinStyle("miter")
+	}
+}
+
+func (d *doc) unstroke() { d.f.SetDashPattern([]float64{}, 0) }
+
+// line draws a straight line.
+func (d *doc) line(x1, y1, x2, y2 float64, s lineStyle) {
+	d.stroke(s)
+	d.f.Line(x1, y1, x2, y2)
+	d.unstroke()
+}
+
+// rule draws a horizontal rule across the content area at the cursor.
+func (d *doc) rule(w float64, c rgb) {
+	d.line(d.left(), d.y, d.right(), d.y, lineStyle{w: w, c: c})
+}
+
+// polyline draws connected segments through pts.
+func (d *doc) polyline(pts []pt, s lineStyle) {
+	if len(pts) < 2 {
+		return
+	}
+	d.stroke(s)
+	d.f.MoveTo(pts[0].x, pts[0].y)
+	for _, p := range pts[1:] {
+		d.f.LineTo(p.x, p.y)
+	}
+	d.f.DrawPath("D")
+	d.unstroke()
+}
+
+// box draws a rectangle, filled with fill when non-nil and outlined when
+// s.w > 0.
+func (d *doc) box(x, y, w, h float64, fill *rgb, s lineStyle) {
+	style := ""
+	if fill != nil {
+		d.fillColor(*fill)
+		style += "F"
+	}
+	if s.w > 0 {
+		d.stroke(s)
+		style += "D"
+	}
+	if style == "" {
+		return
+	}
+	d.f.Rect(x, y, w, h, style)
+	d.unstroke()
+}
+
+// roundBox is box with rounded corners of radius r.
+func (d *doc) roundBox(x, y, w, h, r float64, fill *rgb, s lineStyle) {
+	style := ""
+	if fill != nil {
+		d.fillColor(*fill)
+		style += "F"
+	}
+	if s.w > 0 {
+		d.stroke(s)
+		style += "D"
+	}
+	d.f.RoundedRect(x, y, w, h, r, "1234", style)
+	d.unstroke()
+}
+
+// dot draws a filled circle.
+func (d *doc) dot(x, y, r float64, c rgb) {
+	d.fillColor(c)
+	d.f.Circle(x, y, r, "F")
+}
+
+// A table is drawn row by row down the page; when a row does not fit, the
+// table continues on a new page under its header again.
+
+// column is one column of a table: its heading, its share of the table's
+// width and its alignment, "L", "C" or "R".
+type column struct {
+	head  string
+	w     float64
+	align string
+	mono  bool
+}
+
+// cell is one cell's text and how to draw it.
+type cell struct {
+	s     string
+	bold  bool
+	color *rgb
+}
+
+// trow is one row of a table.
+type trow struct {
+	cells []cell
+	fill  *rgb
+	bold  bool
+	// group marks a heading row: its first cell spans the table.
+	group bool
+	head  bool
+}
+
+// cellsOf makes a row of plain cells.
+func cellsOf(ss ...string) trow {
+	r := trow{cells: make([]cell, len(ss))}
+	for i, s := range ss {
+		r.cells[i] = cell{s: s}
+	}
+	return r
+}
+
+// tableOpts says how to draw a table.
+type tableOpts struct {
+	size  float64 // font size, points
+	title string  // drawn above the header on continuation pages
+	x, w  float64 // position and width; zero for the content area
+	zebra bool    // shade every other row
+}
+
+// table draws a table at the cursor and moves the cursor below it.
+func (d *doc) table(cols []column, rows []trow, o tableOpts) {
+	if o.size == 0 {
+		o.size = 7.5
+	}
+	if o.w == 0 {
+		o.x, o.w = d.left(), d.width()
+	}
+	total := 0.0
+	for _, c := range cols {
+		total += c.w
+	}
+	ws := make([]float64, len(cols))
+	for i, c := range cols {
+		ws[i] = c.w / total * o.w
+	}
+	const padX, padY = 1.2, 0.7
+	d.font(regular, o.size)
+	lh := d.lineH()
+
+	layout := func(r trow) ([][]string, float64) {
+		lines := make([][]string, len(cols))
+		n := 1
+		if r.group {
+			st := regular
+			if r.bold || (len(r.cells) > 0 && r.cells[0].bold) {
+				st = bold
+			}
+			d.font(st, o.size)
+			lines[0] = d.wrap(r.cells[0].s, o.w-2*padX)
+			n = len(lines[0])
+		} else {
+			for i := range cols {
+				if i >= len(r.cells) {
+					continue
+				}
+				c := r.cells[i]
+				st := regular
+				switch {
+				case cols[i].mono && !r.head:
+					st = mono
+				case c.bold || r.bold:
+					st = bold
+				}
+				d.font(st, o.size)
+				lines[i] = d.wrap(c.s, ws[i]-2*padX)
+				n = max(n, len(lines[i]))
+			}
+		}
+		return lines, float64(n)*lh + 2*padY
+	}
+
+	header := trow{bold: true, head: true, fill: &colShade}
+	for _, c := range cols {
+		header.cells = append(header.cells, cell{s: c.head, bold: true})
+	}
+	hlines, hh := layout(header)
+	drawRow := func(r trow, lines [][]string, h float64) {
+		y := d.y
+		if r.fill != nil {
+			d.box(o.x, y, o.w, h, r.fill, lineStyle{})
+		}
+		x := o.x
+		for i := range cols {
+			if r.group && i > 0 {
+				break
+			}
+			w := ws[i]
+			align := cols[i].align
+			if r.group {
+				w, align = o.w, "L"
+			}
+			if align == "" {
+				align = "L"
+			}
+			var c cell
+			if i < len(r.cells) {
+				c = r.cells[i]
+			}
+			st := regular
+			switch {
+			case cols[i].mono && !r.group && !r.head:
+				st = mono
+			case c.bold || r.bold:
+				st = bold
+			}
+			d.font(st, o.size)
+			if c.color != nil {
+				d.textColor(*c.color)
+			} else {
+				d.textColor(colInk)
+			}
+			for j, l := range lines[i] {
+				ly := y + padY + float64(j)*lh
+				d.textIn(x+padX, ly, w-2*padX, lh, l, align)
+			}
+			x += w
+		}
+		d.textColor(colInk)
+		d.y += h
+		d.line(o.x, d.y, o.x+o.w, d.y, lineStyle{w: 0.1, c: colGrid})
+	}
+	drawHeader := func(cont bool) {
+		if cont && o.title != "" {
+			d.font(regular, o.size)
+			d.textColor(colMuted)
+			d.textIn(o.x, d.y, o.w, lh+1, o.title+" (continued)", "L")
+			d.textColor(colInk)
+			d.y += lh + 1
+		}
+		drawRow(header, hlines, hh)
+		d.line(o.x, d.y, o.x+o.w, d.y, lineStyle{w: 0.3, c: colRule})
+	}
+	// Keep the header with at least the first row.
+	first := hh
+	if len(rows) > 0 {
+		_, h := layout(rows[0])
+		first += h
+	}
+	d.need(first)
+	drawHeader(false)
+	for i, r := range rows {
+		lines, h := layout(r)
+		if d.y+h > d.bottom() {
+			d.addPage(d.landscape)
+			drawHeader(true)
+		}
+		if o.zebra && r.fill == nil && i%2 == 1 {
+			r.fill = &rgb{246, 246, 246}
+		}
+		drawRow(r, lines, h)
+	}
+}
