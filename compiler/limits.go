@@ -118,7 +118,7 @@ func checkInside(root string, files []string) error {
 // after.
 func withTimeout[T any](dir string, lim Limits, f func() (T, error)) (T, error) {
 	if lim.Timeout <= 0 {
-		return f()
+		lim.Timeout = 1<<63 - 1
 	}
 	type answer struct {
 		v   T
@@ -126,6 +126,13 @@ func withTimeout[T any](dir string, lim Limits, f func() (T, error)) (T, error) 
 	}
 	ch := make(chan answer, 1)
 	go func() {
+		// A panic in CUE or in ampwright on some input is a bug; it is
+		// reported as an input error naming the design, not a crash.
+		defer func() {
+			if r := recover(); r != nil {
+				ch <- answer{err: ErrorList{{Msg: fmt.Sprintf("design %s: internal error (%v); please report it with the design", dir, r)}}}
+			}
+		}()
 		v, err := f()
 		ch <- answer{v, err}
 	}()

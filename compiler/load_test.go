@@ -73,6 +73,12 @@ var badCases = []struct {
 	{"enum", hull("enum"), []string{"vessel.system"}},
 	{"type-mismatch", hull("type-mismatch"), []string{"site.latitude"}},
 	{"many", hull("many"), manyPaths},
+	{"huge-value", hull("huge-value"), []string{`wiring."bank-panel".length`}},
+	{"nan-value", hull("nan-value"), []string{`wiring."bank-panel".length`}},
+	{"empty-value", hull("empty-value"), []string{"vessel.name", `wiring."panel-fridge".length`}},
+	{"incomplete-value", hull("incomplete-value"), []string{`wiring."bank-panel".length`}},
+	{"conflicting-values", hull("conflicting-values"), []string{"vessel.system"}},
+	{"deep-nesting", hull("deep-nesting"), []string{"notes"}},
 
 	// The same faults in hulls that do not import the schema.
 	{"wrong-unit-noschema", hull("wrong-unit-noschema"), []string{"vessel.length"}},

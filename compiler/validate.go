@@ -98,7 +98,7 @@ func (c *validator) ownErrors(v cue.Value) []errors.Error {
 
 // missing reports a required field that the design does not give.
 func (c *validator) missing(parent cue.Value, sel cue.Selector, field cue.Value) {
-	name := sel.Unquoted()
+	name := selName(sel)
 	path := joinPath(pathString(selectorStrings(parent.Path())), sel)
 	msg := fmt.Sprintf("missing required field %q", name)
 	if a := field.Attribute("q"); a.Err() == nil {
@@ -417,6 +417,29 @@ func (c *validator) reportGroup(path string, errs []errors.Error) {
 	add := func(msg string) {
 		c.errs = append(c.errs, &Error{Pos: pos, Path: path, Msg: msg, Related: related})
 	}
+	// The design itself giving the field two values says more than how
+	// either fails the schema.
+	if dv := c.data.LookupPath(parsePath(path)); dv.Exists() {
+		for _, e := range errors.Errors(dv.Err()) {
+			format, args := e.Msg()
+			if !strings.HasPrefix(format, "conflicting values %s and %s") || len(args) < 2 {
+				continue
+			}
+			ps := append([]token.Pos{e.Position()}, e.InputPositions()...)
+			own := 0
+			for _, p := range ps {
+				if p.IsValid() && !isSchemaPos(p) {
+					own++
+				}
+			}
+			if own >= 2 {
+				pos, related := designPos(ps)
+				c.errs = append(c.errs, &Error{Pos: pos, Path: path, Related: related,
+					Msg: fmt.Sprintf("the design gives two values, %v and %v; a field can have only one", args[0], args[1])})
+				return
+			}
+		}
+	}
 	if disjunction && len(alts) > 1 {
 		// One schema position says where the choices are; one per
 		// alternative is noise.
@@ -487,7 +510,7 @@ func (c *validator) message(path string, e errors.Error) string {
 		if len(sels) == 0 {
 			break
 		}
-		name := sels[len(sels)-1].Unquoted()
+		name := selName(sels[len(sels)-1])
 		parent := c.root.LookupPath(cue.MakePath(sels[:len(sels)-1]...))
 		fields := fieldNames(parent, name)
 		if len(fields) == 0 {
@@ -499,6 +522,9 @@ func (c *validator) message(path string, e errors.Error) string {
 	case strings.HasPrefix(format, "reference %q not found") && len(args) == 1:
 		return fmt.Sprintf("reference %q not found; is an import missing?", fmt.Sprint(args[0]))
 	case strings.HasPrefix(format, "invalid value %v (out of bound %s)") && len(args) == 2:
+		if fmt.Sprint(args[1]) == `!=""` {
+			return "the value is empty; give one"
+		}
 		return fmt.Sprintf("%v is out of range; expected a value %s", args[0], args[1])
 	case strings.HasPrefix(format, "conflicting values %s and %s (mismatched types %s and %s)") && len(args) == 4:
 		given, want := args[1], args[2]
@@ -528,7 +554,7 @@ func fieldNames(v cue.Value, skip string) []string {
 		if sel.LabelType() != cue.StringLabel {
 			continue
 		}
-		if n := sel.Unquoted(); n != skip {
+		if n := selName(sel); n != skip {
 			out = append(out, n)
 		}
 	}
@@ -632,7 +658,7 @@ func elements(v cue.Value) []cue.Value {
 }
 
 func joinPath(parent string, sel cue.Selector) string {
-	s := sel.Unquoted()
+	s := selName(sel)
 	label := cue.Str(s).String()
 	if parent == "" {
 		return label
@@ -644,3 +670,13 @@ func parsePath(s string) cue.Path { return cue.ParsePath(s) }
 
 // quoteLabel spells name as a CUE path element.
 func quoteLabel(name string) string { return cue.Str(name).String() }
+
+// selName is a selector's name without quotes. Selector.Unquoted panics
+// on anything but a string label, and a path parsed back from an error
+// message can hold one.
+func selName(sel cue.Selector) string {
+	if sel.LabelType() == cue.StringLabel {
+		return sel.Unquoted()
+	}
+	return sel.String()
+}

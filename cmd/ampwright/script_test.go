@@ -28,15 +28,21 @@ func TestScript(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	workflow, err := filepath.Abs("../../docs/yard-ci/ampwright.yml")
+	if err != nil {
+		t.Fatal(err)
+	}
 	testscript.Run(t, testscript.Params{
 		Dir:           "testdata/script",
 		UpdateScripts: *updateScripts,
 		Setup: func(env *testscript.Env) error {
 			env.Setenv("DESIGNS", designs)
+			env.Setenv("YARD_WORKFLOW", workflow)
 			return nil
 		},
 		Cmds: map[string]func(ts *testscript.TestScript, neg bool, args []string){
 			"jsonpath": cmdJSONPath,
+			"runsteps": cmdRunSteps,
 		},
 	})
 }
@@ -95,4 +101,60 @@ func lookupJSON(v any, path string) (string, error) {
 	}
 	b, err := json.Marshal(v)
 	return string(b), err
+}
+
+// cmdRunSteps writes the shell commands of one job of a GitHub Actions
+// workflow to a script, so that a test runs the workflow's own commands:
+//
+//	runsteps WORKFLOW JOB SCRIPT
+//
+// Steps that install ampwright are left out (the test's ampwright is on
+// PATH), and so are steps that use an action.
+func cmdRunSteps(ts *testscript.TestScript, neg bool, args []string) {
+	if neg || len(args) != 3 {
+		ts.Fatalf("usage: runsteps WORKFLOW JOB SCRIPT")
+	}
+	lines := strings.Split(ts.ReadFile(args[0]), "\n")
+	var out []string
+	inJob, inRun, skip := false, false, false
+	runIndent := 0
+	indent := func(l string) int { return len(l) - len(strings.TrimLeft(l, " ")) }
+	for _, l := range lines {
+		t := strings.TrimSpace(l)
+		switch {
+		case indent(l) == 2 && strings.HasSuffix(t, ":"):
+			inJob, inRun = t == args[1]+":", false
+			continue
+		case !inJob:
+			continue
+		}
+		if inRun {
+			if t == "" || indent(l) >= runIndent {
+				if !skip && t != "" {
+					out = append(out, strings.TrimSpace(l))
+				}
+				continue
+			}
+			inRun = false
+		}
+		switch {
+		case strings.HasPrefix(t, "- name:"):
+			skip = strings.Contains(t, "install ampwright")
+		case strings.HasPrefix(t, "- uses:"):
+			skip = true
+		case strings.HasPrefix(t, "run: |"):
+			inRun, runIndent = true, indent(l)+2
+		case strings.HasPrefix(t, "run:"):
+			if !skip {
+				out = append(out, strings.TrimSpace(strings.TrimPrefix(t, "run:")))
+			}
+		}
+	}
+	if len(out) == 0 {
+		ts.Fatalf("no commands for job %s in %s", args[1], args[0])
+	}
+	script := "set -euo pipefail\n" + strings.Join(out, "\n") + "\n"
+	if err := os.WriteFile(ts.MkAbs(args[2]), []byte(script), 0o644); err != nil {
+		ts.Fatalf("%v", err)
+	}
 }
