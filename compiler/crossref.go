@@ -174,7 +174,7 @@ func (c *validator) keysAt(p cue.Path) []string {
 	}
 	var out []string
 	for it.Next() {
-		out = append(out, it.Selector().Unquoted())
+		out = append(out, selName(it.Selector()))
 	}
 	sort.Strings(out)
 	return out
