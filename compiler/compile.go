@@ -67,40 +67,52 @@ func Load(dir string) (*Design, error) {
 	return LoadFrom(dir, nil)
 }
 
+// loaded is a hull's package as cue/load gives it, before evaluation.
+type loaded struct {
+	inst  *build.Instance
+	files []string // the package's files and its imports', sorted
+	root  string   // the module root
+	read  func(string) ([]byte, error)
+}
+
+// loadPackage loads the hull's package from src, or the host file system
+// when src is nil.
+func loadPackage(dir string, src *Source) (loaded, error) {
+	var l loaded
+	var err error
+	if src != nil {
+		l.inst, l.files, err = loadSourceInstance(dir, src)
+		l.root, l.read = src.root(), src.read
+		return l, err
+	}
+	l.inst, l.files, err = loadInstance(dir)
+	abs, _ := filepath.Abs(dir)
+	if l.root = moduleRoot(abs); l.root == "" {
+		l.root = abs
+	}
+	l.read = os.ReadFile
+	return l, err
+}
+
 // LoadFrom is Load reading from src, where dir is the hull's directory
 // relative to the module root; with a nil src it reads the host file system.
 func LoadFrom(dir string, src *Source) (*Design, error) {
 	ctx := cuecontext.New()
-	var (
-		inst  *build.Instance
-		files []string
-		err   error
-		root  string
-		read  = os.ReadFile
-		git   GitInfo
-	)
-	if src == nil {
-		inst, files, err = loadInstance(dir)
-		abs, _ := filepath.Abs(dir)
-		if root = moduleRoot(abs); root == "" {
-			root = abs
-		}
-	} else {
-		inst, files, err = loadSourceInstance(dir, src)
-		root, read, git = src.root(), src.read, src.Git
-	}
+	l, err := loadPackage(dir, src)
 	if err != nil {
-		if inst == nil {
+		if l.inst == nil {
 			return nil, ErrorList{{Msg: err.Error()}}
 		}
 		return nil, loadErrors(err)
 	}
-	hash, err := inputsHash(root, files, read)
+	inst, files, root := l.inst, l.files, l.root
+	hash, err := inputsHash(root, files, l.read)
 	if err != nil {
 		return nil, ErrorList{{Msg: err.Error()}}
 	}
-	if src == nil {
-		git = readGit(root)
+	git := readGit(root)
+	if src != nil {
+		git = src.Git
 	}
 
 	data := ctx.BuildInstance(inst)

@@ -5,7 +5,6 @@ import (
 	"io/fs"
 	"os"
 	"path"
-	"path/filepath"
 	"regexp"
 	"sort"
 	"strings"
@@ -67,26 +66,11 @@ func Hulls(root string, src *Source) ([]string, error) {
 // the hash of the schema and of every file the hull's package and its
 // imports are made of. Two hulls with the same hash give the same result.
 func Hash(dir string, src *Source) (string, error) {
-	var (
-		files []string
-		err   error
-		root  string
-		read  = os.ReadFile
-	)
-	if src == nil {
-		_, files, err = loadInstance(dir)
-		abs, _ := filepath.Abs(dir)
-		if root = moduleRoot(abs); root == "" {
-			root = abs
-		}
-	} else {
-		_, files, err = loadSourceInstance(dir, src)
-		root, read = src.root(), src.read
-	}
+	l, err := loadPackage(dir, src)
 	if err != nil {
 		return "", fmt.Errorf("%s: %v", dir, err)
 	}
-	return inputsHash(root, files, read)
+	return inputsHash(l.root, l.files, l.read)
 }
 
 // Inputs returns every concrete value of the design, defaults included, by
