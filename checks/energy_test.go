@@ -4,9 +4,11 @@ import (
 	"fmt"
 	"math"
 	"testing"
+	"time"
 
 	"cuelang.org/go/cue/cuecontext"
 
+	"github.com/ampwright/ampwright/checks/solar"
 	"github.com/ampwright/ampwright/result"
 	"github.com/ampwright/ampwright/schema"
 	"github.com/ampwright/ampwright/schema/unit"
@@ -361,5 +363,19 @@ func BenchmarkSimulateYear(b *testing.B) {
 	b.ReportAllocs()
 	for b.Loop() {
 		Simulate(hours, 4000, 2000, ch)
+	}
+}
+
+// TestClearSkyBound keeps the fast bound within 1 % of the clear-sky day
+// integrated over the full SPA position (both Haurwitz).
+func TestClearSkyBound(t *testing.T) {
+	for _, site := range []struct{ lat, lon float64 }{{50.2, -4.9}, {28.1, -15.4}, {56.4, -5.5}, {-33.9, 18.4}, {64, -22}} {
+		for m := 0; m < 12; m++ {
+			fast := ClearSkyBound(site.lat, site.lon, m)
+			full := solar.ClearSkyDaily(site.lat, site.lon, 2025, time.Month(m+1), meanDay[m]) / 1000
+			if math.Abs(fast-full) > 0.01*full+1e-6 {
+				t.Errorf("lat %v month %d: fast %.4f, SPA %.4f kWh/m²/day", site.lat, m+1, fast, full)
+			}
+		}
 	}
 }

@@ -18,6 +18,7 @@
 package compiler
 
 import (
+	"encoding/json"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -110,9 +111,13 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 	if err != nil {
 		return nil, ErrorList{{Msg: err.Error()}}
 	}
-	git := readGit(root)
+	// Ask git while CUE evaluates: the answers take as long as a good
+	// part of the evaluation, and do not depend on it.
+	gitc := make(chan GitInfo, 1)
 	if src != nil {
-		git = src.Git
+		gitc <- src.Git
+	} else {
+		go func() { gitc <- readGit(root) }()
 	}
 
 	data := ctx.BuildInstance(inst)
@@ -137,7 +142,9 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 	}
 
 	var spec schema.Design
-	if err := unified.Decode(&spec); err != nil {
+	// Through JSON: about a third faster than cue.Value.Decode here, and
+	// the quantity types decode from their text either way.
+	if err := decodeJSON(unified, &spec); err != nil {
 		return nil, loadErrors(err)
 	}
 	var rules schema.Rulebook
@@ -155,7 +162,7 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 		Spec:  &spec,
 		Rules: rules.Over(spec.Rules),
 		pos:   entryPositions(&validator{root: unified, data: data, home: inst.Dir}),
-		Git:   git,
+		Git:   <-gitc,
 		value: unified,
 	}
 	return d, nil
@@ -221,4 +228,13 @@ func moduleEfficiency(v *validator, s *schema.Design) ErrorList {
 		}
 	}
 	return errs
+}
+
+// decodeJSON decodes a concrete value into x through its JSON form.
+func decodeJSON(v cue.Value, x any) error {
+	b, err := v.MarshalJSON()
+	if err != nil {
+		return err
+	}
+	return json.Unmarshal(b, x)
 }

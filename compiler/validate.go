@@ -50,7 +50,13 @@ func (c *validator) walk(v cue.Value) {
 		}
 	}
 	n := len(c.errs)
-	if it, err := v.Fields(cue.All()); err == nil {
+	opts := []cue.Option{cue.All()}
+	if c.clean {
+		// No field is missing in a clean design: the regular fields are
+		// all there is to visit.
+		opts = nil
+	}
+	if it, err := v.Fields(opts...); err == nil {
 		for it.Next() {
 			sel := it.Selector()
 			if sel.LabelType() != cue.StringLabel {

@@ -4,6 +4,20 @@
 // Run `ampwright help` for the commands.
 package main
 
-import "os"
+import (
+	"os"
+	"runtime/debug"
+)
 
-func main() { os.Exit(Main()) }
+func main() {
+	// A run is short and its heap is mostly CUE's, built once and read:
+	// collect seldom, but keep a fleet's heap under its memory target.
+	// GOGC and GOMEMLIMIT in the environment still win.
+	if os.Getenv("GOGC") == "" {
+		debug.SetGCPercent(400)
+	}
+	if os.Getenv("GOMEMLIMIT") == "" {
+		debug.SetMemoryLimit(80 << 20)
+	}
+	os.Exit(Main())
+}
