@@ -1,7 +1,6 @@
 package compiler
 
 import (
-	"fmt"
 	"io/fs"
 	"os"
 	"path"
@@ -60,17 +59,6 @@ func Hulls(root string, src *Source) ([]string, error) {
 	}
 	sort.Strings(out)
 	return out, nil
-}
-
-// Hash returns the inputs hash of the hull in dir without evaluating it:
-// the hash of the schema and of every file the hull's package and its
-// imports are made of. Two hulls with the same hash give the same result.
-func Hash(dir string, src *Source) (string, error) {
-	l, err := loadPackage(dir, src)
-	if err != nil {
-		return "", fmt.Errorf("%s: %v", dir, err)
-	}
-	return inputsHash(l.root, l.files, l.read)
 }
 
 // Inputs returns every concrete value of the design, defaults included, by

@@ -26,7 +26,6 @@ func (s Side) dir(hull string) string {
 	return filepath.Join(s.Dir, filepath.FromSlash(hull))
 }
 
-func (s Side) hash(hull string) (string, error) { return Hash(s.dir(hull), s.Src) }
 
 func (s Side) compile(hull string) (*result.Result, *Design, error) {
 	r, d, err := CompileFrom(s.dir(hull), s.Src)
@@ -37,9 +36,9 @@ func (s Side) compile(hull string) (*result.Result, *Design, error) {
 }
 
 // DiffYard compares every hull of a yard between two sides. A hull whose
-// inputs hash is the same on both sides (its own files and everything it
-// imports, catalog and rulebook included) is listed as unchanged without
-// being compiled.
+// inputs are the same on both sides (its own files and everything it
+// imports, catalog and rulebook included, found by quickHasher) is listed
+// as unchanged without being compiled.
 func DiffYard(base, head Side) (*result.YardDelta, error) {
 	bh, err := base.hulls()
 	if err != nil {
@@ -61,6 +60,7 @@ func DiffYard(base, head Side) (*result.YardDelta, error) {
 		at[h] = v
 	}
 	yd := &result.YardDelta{Base: base.Name, Head: head.Name, Hulls: []result.HullDelta{}}
+	bq, hq := newQuickHasher(base), newQuickHasher(head)
 	for _, hull := range sortedKeys(at) {
 		sides := at[hull]
 		var hd result.HullDelta
@@ -73,7 +73,7 @@ func DiffYard(base, head Side) (*result.YardDelta, error) {
 		case !sides[0]:
 			hd = headOnly(head, hull)
 		default:
-			hd = diffHull(base, head, hull)
+			hd = diffHull(base, head, hull, bq, hq)
 		}
 		yd.Hulls = append(yd.Hulls, hd)
 	}
@@ -94,9 +94,9 @@ func headOnly(head Side, hull string) result.HullDelta {
 	return hd
 }
 
-func diffHull(base, head Side, hull string) result.HullDelta {
-	bHash, bErr := base.hash(hull)
-	hHash, hErr := head.hash(hull)
+func diffHull(base, head Side, hull string, bq, hq *quickHasher) result.HullDelta {
+	bHash, bErr := bq.Hash(hull)
+	hHash, hErr := hq.Hash(hull)
 	if bErr == nil && hErr == nil && bHash == hHash {
 		return result.HullDelta{Path: hull, State: result.HullUnchanged}
 	}
