@@ -195,3 +195,31 @@ func strSelectors(names []string) []cue.Selector {
 	}
 	return out
 }
+
+// literalAt reports whether a literal value (a string, number or boolean
+// the design writes) starts at pos.
+func (r *refResolver) literalAt(pos token.Pos) bool {
+	if r == nil || r.inst == nil {
+		return false
+	}
+	for _, f := range r.allFiles() {
+		if f.Filename != pos.Filename() {
+			continue
+		}
+		found := false
+		ast.Walk(f, func(n ast.Node) bool {
+			if found {
+				return false
+			}
+			if lit, ok := n.(*ast.BasicLit); ok {
+				p := lit.Pos()
+				if p.Line() == pos.Line() && p.Column() == pos.Column() {
+					found = true
+				}
+			}
+			return true
+		}, nil)
+		return found
+	}
+	return false
+}

@@ -76,11 +76,26 @@ func (c *validator) walk(v cue.Value) {
 			c.walk(e)
 		}
 	}
-	if len(c.errs) > n || c.clean {
+	if c.clean {
 		return
 	}
+	// Errors CUE gives for this value that no field below reported: a
+	// field not allowed, say, can be the parent's error rather than the
+	// field's.
 	if err := v.Validate(cue.Concrete(true)); err != nil {
-		c.report(v, errors.Errors(err))
+		have := map[string]bool{}
+		for _, e := range c.errs[n:] {
+			have[e.Path] = true
+		}
+		var rest []errors.Error
+		for _, e := range errors.Errors(err) {
+			if p := pathString(e.Path()); !have[p] && !c.quant[p] {
+				rest = append(rest, e)
+			}
+		}
+		if len(rest) > 0 {
+			c.report(v, rest)
+		}
 	}
 }
 
@@ -432,9 +447,11 @@ func (c *validator) reportGroup(path string, errs []errors.Error) {
 				continue
 			}
 			ps := append([]token.Pos{e.Position()}, e.InputPositions()...)
+			// Count the design's own literals: a schema embedded in the
+			// hull puts its choices' positions at the embedding's line.
 			own := 0
 			for _, p := range ps {
-				if p.IsValid() && !isSchemaPos(p) {
+				if p.IsValid() && !isSchemaPos(p) && c.refs.literalAt(p) {
 					own++
 				}
 			}
