@@ -147,6 +147,7 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 	if err := decodeJSON(unified, &spec); err != nil {
 		return nil, loadErrors(err)
 	}
+	fromCable(v, &spec)
 	var rules schema.Rulebook
 	if err := sch.LookupPath(schema.DefaultPath).Decode(&rules); err != nil {
 		return nil, fmt.Errorf("internal error: the default rulebook does not decode: %v", err)
@@ -237,4 +238,23 @@ func decodeJSON(v cue.Value, x any) error {
 		return err
 	}
 	return json.Unmarshal(b, x)
+}
+
+// fromCable gives a run cut from a catalog cable the cable's insulation
+// rating and material where the design leaves them to their defaults.
+func fromCable(v *validator, s *schema.Design) {
+	for _, name := range schema.Names(s.Wiring) {
+		w := s.Wiring[name]
+		if w.Cable == nil {
+			continue
+		}
+		run := cue.MakePath(cue.Str("wiring"), cue.Str(name))
+		if !v.data.LookupPath(appendPath(run, "insulation")).Exists() {
+			w.Insulation = w.Cable.Insulation
+		}
+		if !v.data.LookupPath(appendPath(run, "material")).Exists() {
+			w.Material = w.Cable.Material
+		}
+		s.Wiring[name] = w
+	}
 }

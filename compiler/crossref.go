@@ -2,10 +2,13 @@ package compiler
 
 import (
 	"fmt"
+	"math"
 	"sort"
 	"strings"
 
 	"cuelang.org/go/cue"
+
+	"github.com/ampwright/ampwright/schema/unit"
 )
 
 // crossCheck finds what the schema cannot say: names that refer to other
@@ -79,6 +82,7 @@ func (c *validator) crossCheck() {
 		base := cue.MakePath(cue.Str("wiring"), cue.Str(name))
 		c.refNoun(base, "from", "node", "bank, a bus, array, controller, charger, inverter or load", nodes)
 		c.refNoun(base, "to", "node", "bank, a bus, array, controller, charger, inverter or load", nodes)
+		c.cableAgrees(base)
 		from, _ := c.root.LookupPath(appendPath(base, "from")).String()
 		to, _ := c.root.LookupPath(appendPath(base, "to")).String()
 		if from != "" && from == to {
@@ -191,4 +195,36 @@ func contains(list []string, s string) bool {
 		}
 	}
 	return false
+}
+
+// cableAgrees checks that a run cut from a catalog cable has the cable's
+// size, insulation rating and material; where the design leaves the
+// insulation or material to their defaults, the cable's are taken
+// (fromCable).
+func (c *validator) cableAgrees(run cue.Path) {
+	if !c.root.LookupPath(appendPath(run, "cable")).Exists() {
+		return
+	}
+	for _, field := range []string{"size", "insulation", "material"} {
+		if field != "size" && !c.data.LookupPath(appendPath(run, field)).Exists() {
+			continue // a default, which the cable's value replaces
+		}
+		mine, err1 := c.root.LookupPath(appendPath(run, field)).String()
+		theirs, err2 := c.root.LookupPath(appendPath(run, "cable", field)).String()
+		if err1 != nil || err2 != nil || sameQuantity(mine, theirs) {
+			continue
+		}
+		p := appendPath(run, field)
+		c.errs.Add(c.dataPos(p), p.String(), "%q differs from its cable's %s %q; give the cable's, or another cable", mine, field, theirs)
+	}
+}
+
+// sameQuantity compares two written values, as quantities when both parse.
+func sameQuantity(a, b string) bool {
+	if a == b {
+		return true
+	}
+	qa, err1 := unit.Parse(a)
+	qb, err2 := unit.Parse(b)
+	return err1 == nil && err2 == nil && qa.Dim == qb.Dim && math.Abs(qa.Value-qb.Value) <= 1e-9*math.Max(math.Abs(qa.Value), math.Abs(qb.Value))
 }

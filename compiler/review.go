@@ -100,11 +100,23 @@ func diffHull(base, head Side, hull string, bq, hq *quickHasher) result.HullDelt
 	if bErr == nil && hErr == nil && bHash == hHash {
 		return result.HullDelta{Path: hull, State: result.HullUnchanged}
 	}
+	// The two sides compile at once, one a core.
+	type side struct {
+		r   *result.Result
+		d   *Design
+		err error
+	}
+	bc := make(chan side, 1)
+	go func() {
+		r, d, err := base.compile(hull)
+		bc <- side{r, d, err}
+	}()
 	hr, hd, err := head.compile(hull)
+	b := <-bc
 	if err != nil {
 		return broken(hull, err)
 	}
-	br, bd, err := base.compile(hull)
+	br, bd, err := b.r, b.d, b.err
 	if err != nil {
 		// A base that did not compile: compare with an empty design, so
 		// that every finding of the head shows.
