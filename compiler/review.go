@@ -26,7 +26,6 @@ func (s Side) dir(hull string) string {
 	return filepath.Join(s.Dir, filepath.FromSlash(hull))
 }
 
-
 func (s Side) compile(hull string) (*result.Result, *Design, error) {
 	r, d, err := CompileFrom(s.dir(hull), s.Src)
 	if r != nil {
