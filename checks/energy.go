@@ -147,6 +147,17 @@ func Bank(d *schema.Design, rules schema.Rulebook) BankModel {
 	return m
 }
 
+// inputs are the figures the usable energy is made of, for a figure's
+// inputs.
+func (bm BankModel) inputs() []result.Input {
+	return []result.Input{
+		{Name: "V_bank × C_bank", Value: round(bm.Nominal, 1), Unit: "Wh", From: "bank.nominalEnergy"},
+		{Name: "DoD", Value: bm.DoD, From: bm.DoDSource},
+		{Name: "F_temp", Value: round(bm.TempFactor, 4), From: bm.TempSource},
+		{Name: "F_eol", Value: bm.EndOfLife, From: "bank.endOfLife"},
+	}
+}
+
 func depthOfDischarge(d *schema.Design, rules schema.Rulebook) (float64, string) {
 	switch {
 	case d.Bank.DepthOfDischarge != nil:
@@ -233,14 +244,10 @@ Limit: days at least the design's autonomy.days.`,
 		out.Figure(result.Figure{
 			ID: "bank.autonomy", Subject: d.Autonomy.Scenario, Value: round(days, 3), Unit: "days",
 			Formula: "days = V_bank × C_bank × DoD × F_temp × F_eol × (C_eff / C_bank) / E_day",
-			Inputs: []result.Input{
-				{Name: "V_bank × C_bank", Value: round(bm.Nominal, 1), Unit: "Wh", From: "bank.nominalEnergy"},
-				{Name: "DoD", Value: bm.DoD, From: bm.DoDSource},
-				{Name: "F_temp", Value: round(bm.TempFactor, 4), From: bm.TempSource},
-				{Name: "F_eol", Value: bm.EndOfLife, From: "bank.endOfLife"},
-				{Name: "C_eff / C_bank", Value: round(ceff/bm.Capacity, 4), From: peukertNote},
-				{Name: "E_day", Value: round(se.WhPerDay, 1), Unit: "Wh", From: "energy budget of " + d.Autonomy.Scenario},
-			},
+			Inputs: append(bm.inputs(),
+				result.Input{Name: "C_eff / C_bank", Value: round(ceff/bm.Capacity, 4), From: peukertNote},
+				result.Input{Name: "E_day", Value: round(se.WhPerDay, 1), Unit: "Wh", From: "energy budget of " + d.Autonomy.Scenario},
+			),
 			Source: "definition; " + bm.DoDSource,
 		})
 		f := result.Finding{
@@ -424,13 +431,8 @@ and per 24 hours. Loads are listed largest first.`,
 		out.Figure(result.Figure{
 			ID: "bank.usableEnergy", Subject: "bank", Value: round(bm.Usable, 1), Unit: "Wh",
 			Formula: "E_usable = V_bank × C_bank × DoD × F_temp × F_eol",
-			Inputs: []result.Input{
-				{Name: "V_bank × C_bank", Value: round(bm.Nominal, 1), Unit: "Wh", From: "bank.nominalEnergy"},
-				{Name: "DoD", Value: bm.DoD, From: bm.DoDSource},
-				{Name: "F_temp", Value: round(bm.TempFactor, 4), From: bm.TempSource},
-				{Name: "F_eol", Value: bm.EndOfLife, From: "bank.endOfLife"},
-			},
-			Source: bm.DoDSource,
+			Inputs:  bm.inputs(),
+			Source:  bm.DoDSource,
 		})
 	},
 }

@@ -6,26 +6,11 @@ import (
 	"testing"
 	"time"
 
-	"cuelang.org/go/cue/cuecontext"
-
 	"github.com/ampwright/ampwright/checks/solar"
 	"github.com/ampwright/ampwright/result"
 	"github.com/ampwright/ampwright/schema"
 	"github.com/ampwright/ampwright/schema/unit"
 )
-
-func defaultRules(t testing.TB) schema.Rulebook {
-	t.Helper()
-	v, err := schema.Build(cuecontext.New())
-	if err != nil {
-		t.Fatal(err)
-	}
-	var r schema.Rulebook
-	if err := v.LookupPath(schema.DefaultPath).Decode(&r); err != nil {
-		t.Fatal(err)
-	}
-	return r
-}
 
 func q(t testing.TB, s string, d unit.Dim) unit.Quantity {
 	t.Helper()
@@ -59,7 +44,7 @@ func bankDesign(t testing.TB, chemistry, volts, ah string, parallel int, dod flo
 // TestBankTradeFacts checks the bank model against the trade's arithmetic
 // (common practice check values, no source).
 func TestBankTradeFacts(t *testing.T) {
-	rules := defaultRules(t)
+	rules := defaultRulebook(t)
 	tests := []struct {
 		name        string
 		chemistry   string
@@ -95,7 +80,7 @@ func TestBankTradeFacts(t *testing.T) {
 // TestLeadAcidTemperature checks the IEEE 485 Table 1 factor is applied as
 // available capacity = 1 / factor (from memory: 1.30 at 4.4 °C).
 func TestLeadAcidTemperature(t *testing.T) {
-	rules := defaultRules(t)
+	rules := defaultRulebook(t)
 	d := bankDesign(t, "agm", "12 V", "100 Ah", 1, 0.5)
 	d.Bank.Temperature = unit.Temperature{Quantity: q(t, "40 °F", unit.DimTemperature)} // 4.4 °C
 	bm := Bank(d, rules)
@@ -168,7 +153,7 @@ func TestModuleTradeFacts(t *testing.T) {
 // TestColdVoc checks the NEC 690.7 coefficient method on the worked values
 // of REFERENCES.md §7 (from memory; verify against the standard).
 func TestColdVoc(t *testing.T) {
-	rules := defaultRules(t)
+	rules := defaultRulebook(t)
 	tests := []struct {
 		name                  string
 		voc, beta, tmin       string
@@ -220,7 +205,7 @@ func TestColdVoc(t *testing.T) {
 // TestColdVocTable checks the table method where a module gives no βVoc:
 // NEC Table 690.7(A), −6 to −10 °C → 1.14 (from memory).
 func TestColdVocTable(t *testing.T) {
-	rules := defaultRules(t)
+	rules := defaultRulebook(t)
 	if got := rowFactor(rules.VocFactor.Rows, -7); got != 1.14 {
 		t.Errorf("factor at −7 °C = %v, want 1.14 (NEC Table 690.7(A), from memory)", got)
 	}
@@ -235,7 +220,7 @@ func TestColdVocTable(t *testing.T) {
 // TestChargeRateBounds: lead-acid bulk charge at roughly 10–30 % of
 // capacity (common practice).
 func TestChargeRateBounds(t *testing.T) {
-	rules := defaultRules(t)
+	rules := defaultRulebook(t)
 	for _, tt := range []struct {
 		output string
 		want   result.Status
