@@ -121,8 +121,8 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 	}
 
 	data := ctx.BuildInstance(inst)
-	if err := data.Err(); err != nil && !data.Exists() {
-		return nil, loadErrors(err)
+	if !data.Exists() {
+		return nil, loadErrors(data.Err())
 	}
 	sch, err := schema.Build(ctx)
 	if err != nil {
@@ -249,10 +249,10 @@ func fromCable(v *validator, s *schema.Design) {
 			continue
 		}
 		run := cue.MakePath(cue.Str("wiring"), cue.Str(name))
-		if !v.data.LookupPath(appendPath(run, "insulation")).Exists() {
+		if v.isDefault(appendPath(run, "insulation")) {
 			w.Insulation = w.Cable.Insulation
 		}
-		if !v.data.LookupPath(appendPath(run, "material")).Exists() {
+		if v.isDefault(appendPath(run, "material")) {
 			w.Material = w.Cable.Material
 		}
 		s.Wiring[name] = w

@@ -206,7 +206,7 @@ func (c *validator) cableAgrees(run cue.Path) {
 		return
 	}
 	for _, field := range []string{"size", "insulation", "material"} {
-		if field != "size" && !c.data.LookupPath(appendPath(run, field)).Exists() {
+		if field != "size" && c.isDefault(appendPath(run, field)) {
 			continue // a default, which the cable's value replaces
 		}
 		mine, err1 := c.root.LookupPath(appendPath(run, field)).String()
@@ -227,4 +227,11 @@ func sameQuantity(a, b string) bool {
 	qa, err1 := unit.Parse(a)
 	qb, err2 := unit.Parse(b)
 	return err1 == nil && err2 == nil && qa.Dim == qb.Dim && math.Abs(qa.Value-qb.Value) <= 1e-9*math.Max(math.Abs(qa.Value), math.Abs(qb.Value))
+}
+
+// isDefault reports whether the value at p is the schema's default, the
+// design giving none.
+func (c *validator) isDefault(p cue.Path) bool {
+	_, d := c.root.LookupPath(p).Default()
+	return d
 }

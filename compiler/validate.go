@@ -215,7 +215,11 @@ func (c *validator) ownPos(v cue.Value) token.Pos {
 // looking two levels deep only, where ownPos walks the whole value
 // (catalog parts included).
 func (c *validator) entryPos(p cue.Path) token.Pos {
-	if pos := c.shallowPos(c.data.LookupPath(p), 2); pos.IsValid() {
+	v := c.data
+	if c.clean {
+		v = c.root // the design's own values, already evaluated
+	}
+	if pos := c.shallowPos(v.LookupPath(p), 2); pos.IsValid() {
 		return pos
 	}
 	return c.dataPos(p)
@@ -317,16 +321,22 @@ func (c *validator) quantity(v cue.Value, a cue.Attribute) {
 		c.errs.Add(v.Pos(), path, "schema: unknown dimension %q in @q", firstArg(a))
 		return
 	}
-	dv := c.data.LookupPath(v.Path())
-	if !dv.Exists() {
+	var dv cue.Value
+	if c.clean {
+		// In a clean design the unified value is the design's own; looking
+		// it up in the design as written would evaluate that a second time.
+		if _, isDefault := v.Default(); isDefault {
+			return // the schema's default
+		}
+		dv = v
+	} else if dv = c.data.LookupPath(v.Path()); !dv.Exists() {
 		// A default from the schema, or a required field reported by its
 		// parent.
 		return
 	}
-	pos := c.dataPos(v.Path())
 	bad := func(format string, args ...any) {
 		c.quant[path] = true
-		c.errs = append(c.errs, &Error{Pos: pos, Path: path, Msg: fmt.Sprintf(format, args...)})
+		c.errs = append(c.errs, &Error{Pos: c.dataPos(v.Path()), Path: path, Msg: fmt.Sprintf(format, args...)})
 	}
 	s, err := writtenString(dv)
 	if err != nil {
