@@ -255,20 +255,18 @@ func CompareInputs(old, new map[string]string) []InputChange {
 
 // Regressions counts the findings of d that got worse.
 func (d *HullDelta) Regressions() int {
-	n := 0
-	for _, f := range d.Findings {
-		if f.Regression {
-			n++
-		}
-	}
-	return n
+	return d.countFindings(func(f StatusChange) bool { return f.Regression })
 }
 
 // Fixes counts the findings of d that got better.
 func (d *HullDelta) Fixes() int {
+	return d.countFindings(func(f StatusChange) bool { return f.Fix })
+}
+
+func (d *HullDelta) countFindings(match func(StatusChange) bool) int {
 	n := 0
 	for _, f := range d.Findings {
-		if f.Fix {
+		if match(f) {
 			n++
 		}
 	}
