@@ -83,8 +83,11 @@ ampwright supports a qualified marine electrician; it does not replace them,
 nor the standards and local rules that apply to the boat.`,
 		Example: `  ampwright check designs/hulls/dunnock
   ampwright check --format json designs/hulls/*
-  ampwright schema --out cue.mod/pkg/ampwright.dev/schema
-  ampwright explain bank.voltage`,
+  ampwright pack designs/hulls/marram -o marram.pdf
+  ampwright fleet designs
+  ampwright diff --base origin/main --format markdown designs
+  ampwright explain wiring.voltageDrop
+  ampwright schema --out cue.mod/pkg/ampwright.dev/schema`,
 		SilenceErrors: true,
 		SilenceUsage:  true,
 	}
