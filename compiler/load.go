@@ -109,13 +109,16 @@ func loadSourceInstance(dir string, src *Source) (*build.Instance, []string, err
 	if err := checkSourceSizes(src, DefaultLimits); err != nil {
 		return nil, nil, err
 	}
+	if err := checkVendoredInSource(src); err != nil {
+		return nil, nil, err
+	}
 	root := src.root()
 	labels.Store(root, src.Label)
 	overlay := make(map[string]load.Source, len(src.Files))
 	for name, b := range src.Files {
 		overlay[root+"/"+name] = load.FromBytes(b)
 	}
-	cfg := &load.Config{Dir: root, Overlay: overlay, Registry: refusingRegistry{}}
+	cfg := &load.Config{Dir: root, Overlay: overlay, Registry: refusingRegistry{}, ParseFile: hullParser(root + "/" + path.Clean(dir))}
 	insts := load.Instances([]string{"./" + strings.TrimPrefix(path.Clean(dir), "./")}, cfg)
 	return checkInstance(dir, insts, src.read)
 }
@@ -134,13 +137,16 @@ func loadInstance(dir string) (*build.Instance, []string, error) {
 	if !fi.IsDir() {
 		return nil, nil, fmt.Errorf("design %s: not a directory; give the directory of a hull's package", dir)
 	}
-	cfg := &load.Config{Dir: abs, Registry: refusingRegistry{}}
+	cfg := &load.Config{Dir: abs, Registry: refusingRegistry{}, ParseFile: hullParser(abs)}
 	arg := "."
 	sizeRoot := abs
 	if root := moduleRoot(abs); root != "" {
 		sizeRoot = root
 	}
 	if err := checkSizes(sizeRoot, DefaultLimits); err != nil {
+		return nil, nil, err
+	}
+	if err := checkVendoredOnDisk(sizeRoot); err != nil {
 		return nil, nil, err
 	}
 	if root := moduleRoot(abs); root != "" {
@@ -170,50 +176,30 @@ func checkInstance(dir string, insts []*build.Instance, read func(string) ([]byt
 	if len(inst.BuildFiles) == 0 {
 		return inst, nil, fmt.Errorf("design %s: no .cue files", dir)
 	}
-	if err := checkVendoredSchema(inst, read); err != nil {
-		return inst, nil, err
-	}
 	return inst, instanceFiles(inst), nil
 }
 
-// checkVendoredSchema fails when the design imports a vendored copy of the
-// schema that is not the one built into this ampwright: unified with the
-// built-in one, a stale copy gives errors that point at the designer's
-// lines for fields they never wrote.
-func checkVendoredSchema(inst *build.Instance, read func(string) ([]byte, error)) error {
-	var vendored *build.Instance
-	seen := map[*build.Instance]bool{}
-	var walk func(*build.Instance)
-	walk = func(i *build.Instance) {
-		if seen[i] || vendored != nil {
-			return
-		}
-		seen[i] = true
-		for _, imp := range i.Imports {
-			if imp.ImportPath == schema.ImportPath {
-				vendored = imp
-				return
-			}
-			walk(imp)
-		}
-	}
-	walk(inst)
-	if vendored == nil {
-		return nil
-	}
-	if len(vendored.BuildFiles) == 0 {
+// checkVendoredSchema fails when the module vendors a copy of the schema
+// (cue.mod/pkg/ampwright.dev/schema) that is not the one built into this
+// ampwright. ampwright's own results do not depend on the copy, which it
+// leaves out (see hullParser), but `cue vet` and editors check the yard's
+// designs with it, and a stale copy would have them disagree.
+//
+// files lists the copy's .cue files by base name, nil when there is none;
+// read reads one of them.
+func checkVendoredSchema(dir string, files []string, read func(string) ([]byte, error)) error {
+	if files == nil {
 		return nil
 	}
 	names, want := schema.Vendored()
-	dir := displayName(filepath.Dir(vendored.BuildFiles[0].Filename))
+	shown := displayName(dir)
 	stale := func(why string) error {
-		return fmt.Errorf("the schema vendored at %s is not the one built into this ampwright (%s); refresh it with: ampwright schema --out %s", dir, why, dir)
+		return fmt.Errorf("the schema vendored at %s is not the one built into this ampwright (%s); refresh it with: ampwright schema --out %s", shown, why, shown)
 	}
 	got := map[string]bool{}
-	for _, f := range vendored.BuildFiles {
-		base := filepath.Base(f.Filename)
+	for _, base := range files {
 		got[base] = true
-		b, err := read(f.Filename)
+		b, err := read(base)
 		if err != nil {
 			return err
 		}
@@ -229,6 +215,44 @@ func checkVendoredSchema(inst *build.Instance, read func(string) ([]byte, error)
 		}
 	}
 	return nil
+}
+
+// vendoredChecked remembers the answer of checkVendoredSchema by module
+// root, so that a fleet reads the copy once.
+var vendoredChecked sync.Map
+
+// checkVendoredOnDisk is checkVendoredSchema for a module on disk.
+func checkVendoredOnDisk(root string) error {
+	if v, ok := vendoredChecked.Load(root); ok {
+		err, _ := v.(error)
+		return err
+	}
+	dir := filepath.Join(root, "cue.mod", "pkg", filepath.FromSlash(schema.ImportPath))
+	var files []string
+	if entries, err := os.ReadDir(dir); err == nil {
+		files = []string{}
+		for _, e := range entries {
+			if !e.IsDir() && strings.HasSuffix(e.Name(), ".cue") {
+				files = append(files, e.Name())
+			}
+		}
+	}
+	err := checkVendoredSchema(dir, files, func(base string) ([]byte, error) { return os.ReadFile(filepath.Join(dir, base)) })
+	vendoredChecked.Store(root, err)
+	return err
+}
+
+// checkVendoredInSource is checkVendoredSchema for a module in memory.
+func checkVendoredInSource(src *Source) error {
+	prefix := "cue.mod/pkg/" + schema.ImportPath + "/"
+	var files []string
+	for name := range src.Files {
+		if rest, ok := strings.CutPrefix(name, prefix); ok && !strings.Contains(rest, "/") && strings.HasSuffix(rest, ".cue") {
+			files = append(files, rest)
+		}
+	}
+	sort.Strings(files)
+	return checkVendoredSchema(src.Label+prefix, files, func(base string) ([]byte, error) { return src.Files[prefix+base], nil })
 }
 
 func unwrapPathError(err error) error {
