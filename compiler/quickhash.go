@@ -11,6 +11,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 
 	"cuelang.org/go/cue/parser"
 
@@ -33,6 +34,7 @@ type quickHasher struct {
 type dirInputs struct {
 	files   []string // slash paths of the directory's .cue files, sorted
 	imports []string // directories its files import from
+	digest  []byte   // SHA-256 of the files' names and contents
 	err     error
 }
 
@@ -70,6 +72,7 @@ func (q *quickHasher) dir(d string) *dirInputs {
 		return di
 	}
 	seen := map[string]bool{}
+	h := sha256.New()
 	for _, e := range entries {
 		if e.IsDir() || !strings.HasSuffix(e.Name(), ".cue") {
 			continue
@@ -81,6 +84,8 @@ func (q *quickHasher) dir(d string) *dirInputs {
 			di.err = err
 			return di
 		}
+		fmt.Fprintf(h, "%s\x00%d\x00", p, len(b))
+		h.Write(b)
 		f, err := parser.ParseFile(p, b, parser.ImportsOnly)
 		if err != nil {
 			continue // a syntax error: the file's bytes still count
@@ -101,6 +106,7 @@ func (q *quickHasher) dir(d string) *dirInputs {
 	}
 	sort.Strings(di.files)
 	sort.Strings(di.imports)
+	di.digest = h.Sum(nil)
 	return di
 }
 
@@ -120,9 +126,12 @@ func (q *quickHasher) resolve(ip string) (string, bool) {
 	return "", false
 }
 
-// Hash is the quick hash of the hull in directory hull.
+// Hash is the quick hash of the hull in directory hull: of the schema, the
+// module file and the digests of the directories its package is made of.
+// Each directory's digest is computed once, so the catalog shared by every
+// hull is read and hashed once a side.
 func (q *quickHasher) Hash(hull string) (string, error) {
-	var files []string
+	var dirs []string
 	visited := map[string]bool{}
 	var walk func(d string) error
 	walk = func(d string) error {
@@ -134,7 +143,7 @@ func (q *quickHasher) Hash(hull string) (string, error) {
 		if di.err != nil {
 			return di.err
 		}
-		files = append(files, di.files...)
+		dirs = append(dirs, d)
 		for _, imp := range di.imports {
 			if err := walk(imp); err != nil {
 				return err
@@ -145,22 +154,25 @@ func (q *quickHasher) Hash(hull string) (string, error) {
 	if err := walk(path.Clean(hull)); err != nil {
 		return "", fmt.Errorf("%s: %v", hull, err)
 	}
-	sort.Strings(files)
+	sort.Strings(dirs)
+	h := sha256.New()
+	h.Write(schemaDigest())
+	fmt.Fprintf(h, "cue.mod/module.cue\x00%d\x00", len(q.modFile))
+	h.Write(q.modFile)
+	for _, d := range dirs {
+		fmt.Fprintf(h, "%s\x00", d)
+		h.Write(q.dirs[d].digest)
+	}
+	return hex.EncodeToString(h.Sum(nil)), nil
+}
+
+// schemaDigest is the SHA-256 of the embedded schema's files.
+var schemaDigest = sync.OnceValue(func() []byte {
 	h := sha256.New()
 	names, contents := schema.Files()
 	for _, n := range names {
 		fmt.Fprintf(h, "%s%s\x00%d\x00", schema.FilePrefix, n, len(contents[n]))
 		h.Write(contents[n])
 	}
-	fmt.Fprintf(h, "cue.mod/module.cue\x00%d\x00", len(q.modFile))
-	h.Write(q.modFile)
-	for _, f := range files {
-		b, err := fs.ReadFile(q.fsys, f)
-		if err != nil {
-			return "", err
-		}
-		fmt.Fprintf(h, "%s\x00%d\x00", f, len(b))
-		h.Write(b)
-	}
-	return hex.EncodeToString(h.Sum(nil)), nil
-}
+	return h.Sum(nil)
+})

@@ -99,33 +99,36 @@ func diffHull(base, head Side, hull string, bq, hq *quickHasher) result.HullDelt
 	if bErr == nil && hErr == nil && bHash == hHash {
 		return result.HullDelta{Path: hull, State: result.HullUnchanged}
 	}
-	// The two sides compile at once, one a core.
+	// The two sides compile at once, one a core, each listing its inputs.
 	type side struct {
-		r   *result.Result
-		d   *Design
-		err error
+		r      *result.Result
+		inputs map[string]string
+		err    error
+	}
+	run := func(s Side) side {
+		r, d, err := s.compile(hull)
+		if err != nil {
+			return side{err: err}
+		}
+		return side{r: r, inputs: d.Inputs()}
 	}
 	bc := make(chan side, 1)
-	go func() {
-		r, d, err := base.compile(hull)
-		bc <- side{r, d, err}
-	}()
-	hr, hd, err := head.compile(hull)
+	go func() { bc <- run(base) }()
+	h := run(head)
 	b := <-bc
-	if err != nil {
-		return broken(hull, err)
+	if h.err != nil {
+		return broken(hull, h.err)
 	}
-	br, bd, err := b.r, b.d, b.err
-	if err != nil {
+	br := b.r
+	if b.err != nil {
 		// A base that did not compile: compare with an empty design, so
 		// that every finding of the head shows.
-		br = &result.Result{Design: hr.Design, BOM: &result.BOM{Complete: true}}
-		bd = nil
+		br = &result.Result{Design: h.r.Design, BOM: &result.BOM{Complete: true}}
 	}
-	delta := result.Compare(br, hr)
+	delta := result.Compare(br, h.r)
 	delta.Path = hull
-	if bd != nil {
-		delta.Inputs = result.CompareInputs(bd.Inputs(), hd.Inputs())
+	if b.err == nil {
+		delta.Inputs = result.CompareInputs(b.inputs, h.inputs)
 	}
 	if len(delta.Inputs) == 0 && len(delta.Figures) == 0 && len(delta.Findings) == 0 && len(delta.BOM) == 0 {
 		delta.State = result.HullUnchanged
