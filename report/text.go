@@ -211,15 +211,7 @@ func orDash(s string) string {
 func Problems(w io.Writer, ps []result.Problem) error {
 	p := &printer{w: w}
 	for _, e := range ps {
-		var b strings.Builder
-		if e.Position != "" {
-			b.WriteString(e.Position + ": ")
-		}
-		if e.Path != "" {
-			b.WriteString(e.Path + ": ")
-		}
-		b.WriteString(e.Message)
-		p.line("%s", b.String())
+		p.line("%s", problemText(e))
 		for _, r := range e.Related {
 			p.line("    %s", r)
 		}

@@ -2,7 +2,6 @@ package main
 
 import (
 	"errors"
-	"fmt"
 
 	"github.com/spf13/cobra"
 
@@ -32,8 +31,7 @@ and no thousands separators.`,
 			}
 			r, err := compileOne(args[0])
 			if err != nil {
-				fmt.Fprintf(cmd.ErrOrStderr(), "%s: %d input error(s)\n", args[0], len(r.Problems))
-				if perr := report.Problems(cmd.ErrOrStderr(), r.Problems); perr != nil {
+				if perr := printProblems(cmd.ErrOrStderr(), args[0], r); perr != nil {
 					return perr
 				}
 				return &exitError{code: exitInput}

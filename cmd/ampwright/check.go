@@ -65,8 +65,7 @@ func runCheck(opts *checkOptions, dirs []string) error {
 			fmt.Fprintln(opts.stdout)
 		}
 		if err != nil {
-			fmt.Fprintf(opts.stderr, "%s: %d input error(s)\n", dir, len(r.Problems))
-			if err := report.Problems(opts.stderr, r.Problems); err != nil {
+			if err := printProblems(opts.stderr, dir, r); err != nil {
 				return err
 			}
 			continue
@@ -88,6 +87,13 @@ func runCheck(opts *checkOptions, dirs []string) error {
 		return &exitError{code: code}
 	}
 	return nil
+}
+
+// printProblems writes a design's input errors as every command does: a
+// count, then one error a line.
+func printProblems(w io.Writer, dir string, r *result.Result) error {
+	fmt.Fprintf(w, "%s: %d input error(s)\n", dir, len(r.Problems))
+	return report.Problems(w, r.Problems)
 }
 
 // compileOne compiles one design; on input errors the result carries them

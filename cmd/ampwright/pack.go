@@ -92,8 +92,7 @@ func runPack(opts *packOptions, dir string) error {
 
 	r, err := compileOne(dir)
 	if err != nil {
-		fmt.Fprintf(opts.stderr, "%s: %d input error(s)\n", dir, len(r.Problems))
-		if err := report.Problems(opts.stderr, r.Problems); err != nil {
+		if err := printProblems(opts.stderr, dir, r); err != nil {
 			return err
 		}
 		return &exitError{code: exitInput}
