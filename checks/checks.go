@@ -23,8 +23,17 @@ type Input struct {
 	// Network is the wiring as a tree from the bank.
 	Network *Network
 
-	harvest []ArrayHarvest // memo of Harvest
-	sim     *voyageRun     // memo of the voyage simulation
+	budget  []ScenarioEnergy // memo of Budget
+	harvest []ArrayHarvest   // memo of Harvest
+	sim     *voyageRun       // memo of the voyage simulation
+}
+
+// Budget returns the design's energy budget, computed once per Input.
+func (in *Input) Budget() []ScenarioEnergy {
+	if in.budget == nil {
+		in.budget = Budget(in.Design)
+	}
+	return in.budget
 }
 
 // Harvest returns the arrays' harvest, computed once per Input.

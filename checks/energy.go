@@ -231,7 +231,7 @@ Limit: days at least the design's autonomy.days.`,
 		}
 		bm := Bank(d, in.Rules)
 		var se ScenarioEnergy
-		for _, s := range Budget(d) {
+		for _, s := range in.Budget() {
 			if s.Name == d.Autonomy.Scenario {
 				se = s
 			}
@@ -415,7 +415,7 @@ The scenario's energy is the sum, also given in Ah at the nominal voltage
 and per 24 hours. Loads are listed largest first.`,
 	Run: func(in *Input, out *Report) {
 		d := in.Design
-		for _, se := range Budget(d) {
+		for _, se := range in.Budget() {
 			var inputs []result.Input
 			for _, l := range se.Loads {
 				inputs = append(inputs, result.Input{Name: l.Name, Value: round(l.Wh, 2), Unit: "Wh", From: l.Formula})

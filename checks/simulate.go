@@ -113,7 +113,7 @@ func VoyageHours(in *Input, harvest []ArrayHarvest) []Hour {
 		return nil
 	}
 	budget := map[string]ScenarioEnergy{}
-	for _, se := range Budget(d) {
+	for _, se := range in.Budget() {
 		budget[se.Name] = se
 	}
 	solarByMonth := map[int][24]float64{}

@@ -168,7 +168,7 @@ Solar fraction = harvest / the scenario's energy per day.`,
 				})
 			}
 		}
-		for _, se := range Budget(d) {
+		for _, se := range in.Budget() {
 			for _, m := range d.Site.Months {
 				if se.WhPerDay <= 0 {
 					continue

@@ -44,7 +44,7 @@ func compile(dir string, src *Source) (*result.Result, *Design, error) {
 	r.Checks, figures = checks.RunAll(checks.All, in)
 	r.Figures = append(r.Figures, figures...)
 	r.Wiring = wiringTable(net, r)
-	r.Budget = budgetTable(d)
+	r.Budget = budgetTable(in.Budget())
 	r.Harvest = in.HarvestResult()
 	r.Voyage = in.VoyageResult()
 	r.BOM = billOfMaterials(d)
@@ -222,9 +222,9 @@ func wiringTable(net *checks.Network, r *result.Result) []result.WiringLine {
 func round3(x float64) float64 { return math.Round(x*1000) / 1000 }
 
 // budgetTable is the energy budget of each scenario, for reports.
-func budgetTable(d *Design) []result.ScenarioBudget {
+func budgetTable(budget []checks.ScenarioEnergy) []result.ScenarioBudget {
 	var out []result.ScenarioBudget
-	for _, se := range checks.Budget(d.Spec) {
+	for _, se := range budget {
 		sb := result.ScenarioBudget{
 			Scenario: se.Name, Hours: se.Hours, Wh: round3(se.Wh), Ah: round3(se.Ah),
 			WhPerDay: round3(se.WhPerDay), MeanCurrent: round3(se.MeanCurrent),
