@@ -130,7 +130,7 @@ func diffHull(base, head Side, hull string, bq, hq *quickHasher) result.HullDelt
 	if b.err == nil {
 		delta.Inputs = result.CompareInputs(b.inputs, h.inputs)
 	}
-	if len(delta.Inputs) == 0 && len(delta.Figures) == 0 && len(delta.Findings) == 0 && len(delta.BOM) == 0 {
+	if !delta.HasChanges() {
 		delta.State = result.HullUnchanged
 	}
 	return delta

@@ -59,7 +59,7 @@ func DiffMarkdown(w io.Writer, d *result.YardDelta) error {
 		p.line("| %s | %s | %s | %d | %d | %s |", md(h.Path), md(strings.TrimSpace(h.Name+" "+h.Hull)), h.State, h.Regressions(), h.Fixes(), md(string(h.Verdict)))
 	}
 	for _, h := range d.Hulls {
-		if h.State == result.HullUnchanged || (len(h.Findings) == 0 && len(h.Figures) == 0 && len(h.Inputs) == 0 && len(h.Problems) == 0 && len(h.BOM) == 0) {
+		if h.State == result.HullUnchanged || !h.HasChanges() {
 			continue
 		}
 		p.line("")
@@ -73,50 +73,59 @@ func DiffMarkdown(w io.Writer, d *result.YardDelta) error {
 			}
 		}
 		if len(h.Findings) > 0 {
-			p.line("")
-			p.line("| change | check | subject | was | now | value | limit | message |")
-			p.line("| --- | --- | --- | --- | --- | ---: | ---: | --- |")
+			var rows [][]string
 			for _, f := range h.Findings {
-				p.line("| %s | %s | %s | %s | %s | %s | %s | %s |", changeWord(f), md(f.ID), md(f.Subject), orNone(f.Old), orNone(f.New),
-					md(numUnit(f.Value, f.Unit)), md(numUnit(f.Limit, f.Unit)), md(f.Message))
+				rows = append(rows, []string{changeWord(f), md(f.ID), md(f.Subject), orNone(f.Old), orNone(f.New),
+					md(numUnit(f.Value, f.Unit)), md(numUnit(f.Limit, f.Unit)), md(f.Message)})
 			}
+			p.line("")
+			p.mdTable("| change | check | subject | was | now | value | limit | message |", "| --- | --- | --- | --- | --- | ---: | ---: | --- |", rows)
 		}
 		if len(h.Inputs) > 0 {
-			p.line("")
-			p.line("<details><summary>%d input(s) changed</summary>", len(h.Inputs))
-			p.line("")
-			p.line("| input | was | now |")
-			p.line("| --- | --- | --- |")
+			var rows [][]string
 			for _, in := range h.Inputs {
-				p.line("| %s | %s | %s |", md(in.Path), md(in.Old), md(in.New))
+				rows = append(rows, []string{md(in.Path), md(in.Old), md(in.New)})
 			}
-			p.line("")
-			p.line("</details>")
+			p.mdDetails(fmt.Sprintf("%d input(s) changed", len(h.Inputs)), "| input | was | now |", "| --- | --- | --- |", rows)
 		}
 		if len(h.Figures) > 0 {
-			p.line("")
-			p.line("<details><summary>%d figure(s) changed</summary>", len(h.Figures))
-			p.line("")
-			p.line("| figure | subject | was | now | change |")
-			p.line("| --- | --- | ---: | ---: | ---: |")
+			var rows [][]string
 			for _, f := range h.Figures {
-				p.line("| %s | %s | %s | %s | %s |", md(f.ID), md(f.Subject), md(numUnit(f.Old, f.Unit)), md(numUnit(f.New, f.Unit)), md(deltaText(f)))
+				rows = append(rows, []string{md(f.ID), md(f.Subject), md(numUnit(f.Old, f.Unit)), md(numUnit(f.New, f.Unit)), md(deltaText(f))})
 			}
-			p.line("")
-			p.line("</details>")
+			p.mdDetails(fmt.Sprintf("%d figure(s) changed", len(h.Figures)), "| figure | subject | was | now | change |", "| --- | --- | ---: | ---: | ---: |", rows)
 		}
 		if len(h.BOM) > 0 {
+			var rows [][]string
+			for _, b := range h.BOM {
+				rows = append(rows, []string{md(b.Part), md(b.Category), num2(b.Old), num2(b.New), md(b.Unit)})
+			}
 			p.line("")
 			p.line("Bill of materials: %s", md(costText(h)))
 			p.line("")
-			p.line("| part | category | was | now | unit |")
-			p.line("| --- | --- | ---: | ---: | --- |")
-			for _, b := range h.BOM {
-				p.line("| %s | %s | %s | %s | %s |", md(b.Part), md(b.Category), num2(b.Old), num2(b.New), md(b.Unit))
-			}
+			p.mdTable("| part | category | was | now | unit |", "| --- | --- | ---: | ---: | --- |", rows)
 		}
 	}
 	return p.err
+}
+
+// mdTable writes a Markdown table whose cells are escaped already.
+func (p *printer) mdTable(header, align string, rows [][]string) {
+	p.line("%s", header)
+	p.line("%s", align)
+	for _, r := range rows {
+		p.line("| %s |", strings.Join(r, " | "))
+	}
+}
+
+// mdDetails writes a table folded under a summary line.
+func (p *printer) mdDetails(summary, header, align string, rows [][]string) {
+	p.line("")
+	p.line("<details><summary>%s</summary>", summary)
+	p.line("")
+	p.mdTable(header, align, rows)
+	p.line("")
+	p.line("</details>")
 }
 
 func hullTitle(h result.HullDelta) string {

@@ -253,6 +253,12 @@ func CompareInputs(old, new map[string]string) []InputChange {
 	return out
 }
 
+// HasChanges reports whether anything of the hull differs: inputs,
+// figures, findings, parts, or input errors at the head.
+func (d *HullDelta) HasChanges() bool {
+	return len(d.Inputs)+len(d.Figures)+len(d.Findings)+len(d.BOM)+len(d.Problems) > 0
+}
+
 // Regressions counts the findings of d that got worse.
 func (d *HullDelta) Regressions() int {
 	return d.countFindings(func(f StatusChange) bool { return f.Regression })
