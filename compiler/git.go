@@ -1,7 +1,6 @@
 package compiler
 
 import (
-	"os/exec"
 	"strconv"
 	"strings"
 	"sync"
@@ -34,12 +33,8 @@ func readGit(dir string) GitInfo {
 
 func askGit(dir string) GitInfo {
 	run := func(args ...string) (string, bool) {
-		cmd := exec.Command("git", append([]string{"-C", dir}, args...)...)
-		out, err := cmd.Output()
-		if err != nil {
-			return "", false
-		}
-		return strings.TrimSpace(string(out)), true
+		out, err := git(dir, nil, args...)
+		return strings.TrimSpace(string(out)), err == nil
 	}
 	rev, ok := run("rev-parse", "--verify", "--quiet", "HEAD")
 	if !ok || rev == "" {

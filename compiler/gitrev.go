@@ -122,13 +122,12 @@ func ReadRevision(moduleDir, rev string) (*Source, error) {
 // merge base of HEAD with the default branch (origin/HEAD, main or master),
 // else HEAD.
 func DefaultBase(dir string) string {
+	out, _ := git(dir, nil, "rev-parse", "HEAD")
+	head := strings.TrimSpace(string(out))
 	for _, branch := range []string{"origin/HEAD", "origin/main", "main", "origin/master", "master"} {
 		if out, err := git(dir, nil, "merge-base", "HEAD", branch); err == nil {
-			if mb := strings.TrimSpace(string(out)); mb != "" {
-				head, _ := git(dir, nil, "rev-parse", "HEAD")
-				if strings.TrimSpace(string(head)) != mb {
-					return mb
-				}
+			if mb := strings.TrimSpace(string(out)); mb != "" && mb != head {
+				return mb
 			}
 		}
 	}
