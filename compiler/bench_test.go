@@ -1,7 +1,6 @@
 package compiler
 
 import (
-	"os"
 	"testing"
 
 	"cuelang.org/go/cue"
@@ -172,27 +171,4 @@ func BenchmarkPhases(b *testing.B) {
 		}
 		perHull(b)
 	})
-}
-
-// BenchmarkDiffYard measures DiffYard between a git revision and the work
-// tree of the yard named by $AMPWRIGHT_BENCH_YARD (skipped without it), as
-// `ampwright diff --base HEAD YARD` runs it. .ci/bench keeps such a yard
-// with BENCH_KEEP=1:
-//
-//	AMPWRIGHT_BENCH_YARD=/tmp/ampwright-bench.XXXX/yard \
-//		go test ./compiler -run xxx -bench DiffYard -cpuprofile /tmp/diff.out
-func BenchmarkDiffYard(b *testing.B) {
-	yard := os.Getenv("AMPWRIGHT_BENCH_YARD")
-	if yard == "" {
-		b.Skip("set AMPWRIGHT_BENCH_YARD to a yard in a git work tree")
-	}
-	for b.Loop() {
-		src, err := ReadRevision(yard, "HEAD")
-		if err != nil {
-			b.Fatal(err)
-		}
-		if _, err := DiffYard(Side{Name: "HEAD", Src: src}, Side{Name: "work tree", Dir: yard}); err != nil {
-			b.Fatal(err)
-		}
-	}
 }

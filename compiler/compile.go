@@ -47,9 +47,6 @@ type Design struct {
 	// Rules is the rulebook in force: the default, with the design's
 	// tables over it.
 	Rules schema.Rulebook
-	// Git is the revision the design was read from, when it is in a git
-	// work tree.
-	Git GitInfo
 	// pos holds the design's position of every named entry, by CUE path.
 	pos map[string]token.Pos
 	// value is the design unified with the schema.
@@ -111,15 +108,6 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 	if err != nil {
 		return nil, ErrorList{{Msg: err.Error()}}
 	}
-	// Ask git while CUE evaluates: the answers take as long as a good
-	// part of the evaluation, and do not depend on it.
-	gitc := make(chan GitInfo, 1)
-	if src != nil {
-		gitc <- src.Git
-	} else {
-		go func() { gitc <- readGit(root) }()
-	}
-
 	data := ctx.BuildInstance(inst)
 	if !data.Exists() {
 		return nil, loadErrors(data.Err())
@@ -163,7 +151,6 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 		Spec:  &spec,
 		Rules: rules.Over(spec.Rules),
 		pos:   entryPositions(&validator{root: unified, data: data, home: inst.Dir}),
-		Git:   <-gitc,
 		value: unified,
 	}
 	return d, nil

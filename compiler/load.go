@@ -67,11 +67,10 @@ type Source struct {
 	Files map[string][]byte
 	// Label prefixes file names in messages, such as "a1b2c3d:designs/".
 	Label string
-	// Git is the revision the files were read from.
-	Git GitInfo
 }
 
-func (s *Source) fs() fstest.MapFS {
+// FS returns the source's files as a file system.
+func (s *Source) FS() fstest.MapFS {
 	m := fstest.MapFS{}
 	for name, b := range s.Files {
 		m[name] = &fstest.MapFile{Data: b, Mode: 0o644}

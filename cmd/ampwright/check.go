@@ -10,6 +10,7 @@ import (
 	"github.com/ampwright/ampwright/compiler"
 	"github.com/ampwright/ampwright/report"
 	"github.com/ampwright/ampwright/result"
+	"github.com/ampwright/ampwright/yard"
 )
 
 type checkOptions struct {
@@ -99,7 +100,7 @@ func printProblems(w io.Writer, dir string, r *result.Result) error {
 // compileOne compiles one design; on input errors the result carries them
 // as problems and the error is returned too.
 func compileOne(dir string) (*result.Result, error) {
-	r, _, err := compiler.Compile(dir)
+	r, _, err := yard.Compile(dir)
 	if err == nil {
 		return r, nil
 	}

@@ -8,9 +8,9 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/ampwright/ampwright/compiler"
 	"github.com/ampwright/ampwright/report"
 	"github.com/ampwright/ampwright/result"
+	"github.com/ampwright/ampwright/yard"
 )
 
 const (
@@ -74,7 +74,7 @@ any failing finding in a changed hull), 2 an error.`,
 }
 
 func runDiff(opts *diffOptions, args []string) error {
-	var base, head compiler.Side
+	var base, head yard.Side
 	switch len(args) {
 	case 2:
 		if opts.base != "" || opts.head != "" {
@@ -85,37 +85,37 @@ func runDiff(opts *diffOptions, args []string) error {
 				return usageError("%s is not a directory", d)
 			}
 		}
-		base = compiler.Side{Name: args[0], Dir: args[0]}
-		head = compiler.Side{Name: args[1], Dir: args[1]}
+		base = yard.Side{Name: args[0], Dir: args[0]}
+		head = yard.Side{Name: args[1], Dir: args[1]}
 	default:
-		yard := "."
+		dir := "."
 		if len(args) == 1 {
-			yard = args[0]
+			dir = args[0]
 		}
-		root, err := yardRoot(yard)
+		root, err := yardRoot(dir)
 		if err != nil {
 			return &exitError{code: exitInput, err: err}
 		}
 		rev := opts.base
 		if rev == "" {
-			rev = compiler.DefaultBase(root)
+			rev = yard.DefaultBase(root)
 		}
-		src, err := compiler.ReadRevision(root, rev)
+		src, err := yard.ReadRevision(root, rev)
 		if err != nil {
 			return &exitError{code: exitInput, err: err}
 		}
-		base = compiler.Side{Name: rev, Src: src}
+		base = yard.Side{Name: rev, Rev: src}
 		if opts.head != "" {
-			hsrc, err := compiler.ReadRevision(root, opts.head)
+			hsrc, err := yard.ReadRevision(root, opts.head)
 			if err != nil {
 				return &exitError{code: exitInput, err: err}
 			}
-			head = compiler.Side{Name: opts.head, Src: hsrc}
+			head = yard.Side{Name: opts.head, Rev: hsrc}
 		} else {
-			head = compiler.Side{Name: "work tree", Dir: root}
+			head = yard.Side{Name: "work tree", Dir: root}
 		}
 	}
-	d, err := compiler.DiffYard(base, head)
+	d, err := yard.DiffYard(base, head)
 	if err != nil {
 		return &exitError{code: exitInput, err: err}
 	}

@@ -10,9 +10,9 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/ampwright/ampwright/compiler"
 	"github.com/ampwright/ampwright/report"
 	"github.com/ampwright/ampwright/result"
+	"github.com/ampwright/ampwright/yard"
 )
 
 const (
@@ -96,13 +96,13 @@ func runFleet(opts *fleetOptions, dir string) error {
 	if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
 		return usageError("%s is not a directory", dir)
 	}
-	all, err := compiler.Hulls(dir, nil)
+	all, err := yard.Hulls(dir, nil)
 	if err != nil {
 		return &exitError{code: exitInput, err: err}
 	}
 	var hulls []string
 	for _, h := range all {
-		if compiler.InShard(h, k, n) {
+		if yard.InShard(h, k, n) {
 			hulls = append(hulls, h)
 		}
 	}
@@ -110,7 +110,7 @@ func runFleet(opts *fleetOptions, dir string) error {
 	if n > 1 {
 		f.Shard = opts.shard
 	}
-	f.Hulls = compiler.Fleet(dir, hulls, progressBar(opts.stderr))
+	f.Hulls = yard.Fleet(dir, hulls, progressBar(opts.stderr))
 	return printFleet(opts, f)
 }
 

@@ -10,6 +10,7 @@ import (
 	// Only the test imports the compiler: yardgen itself stays on the
 	// standard library (the import-flow test counts non-test imports).
 	"github.com/ampwright/ampwright/compiler"
+	"github.com/ampwright/ampwright/yard"
 )
 
 // TestGeneratedHullsCompile generates a small yard and compiles every hull:
@@ -24,7 +25,7 @@ func TestGeneratedHullsCompile(t *testing.T) {
 			t.Errorf("the yard lacks %s: %v", p, err)
 		}
 	}
-	hulls, err := compiler.Hulls(out, nil)
+	hulls, err := yard.Hulls(out, nil)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,4 +1,4 @@
-package compiler
+package yard
 
 import (
 	"crypto/sha256"
@@ -42,8 +42,8 @@ var modulePath = regexp.MustCompile(`(?m)^\s*module:\s*"([^"]+)"`)
 
 func newQuickHasher(s Side) *quickHasher {
 	q := &quickHasher{dirs: map[string]*dirInputs{}}
-	if s.Src != nil {
-		q.fsys = s.Src.fs()
+	if s.Rev != nil {
+		q.fsys = s.Rev.Source.FS()
 	} else {
 		q.fsys = os.DirFS(s.Dir)
 	}

@@ -1,4 +1,4 @@
-package compiler
+package yard
 
 import (
 	"crypto/sha256"

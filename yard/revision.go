@@ -1,37 +1,30 @@
-package compiler
+package yard
 
 import (
 	"bufio"
 	"bytes"
 	"fmt"
 	"io"
-	"os/exec"
 	"path/filepath"
 	"strconv"
 	"strings"
+
+	"github.com/ampwright/ampwright/compiler"
 )
 
-// git runs git in dir with an argument list, never through a shell.
-func git(dir string, stdin io.Reader, args ...string) ([]byte, error) {
-	cmd := exec.Command("git", append([]string{"-C", dir}, args...)...)
-	cmd.Stdin = stdin
-	var stderr bytes.Buffer
-	cmd.Stderr = &stderr
-	out, err := cmd.Output()
-	if err != nil {
-		msg := strings.TrimSpace(stderr.String())
-		if msg == "" {
-			msg = err.Error()
-		}
-		return nil, fmt.Errorf("git %s: %s", strings.Join(args, " "), msg)
-	}
-	return out, nil
+// Revision is a yard module as it was at a git commit, held in memory.
+type Revision struct {
+	// Source is the module's files at the commit.
+	Source *compiler.Source
+	// Commit is the commit's hash and Time its commit time, Unix seconds.
+	Commit string
+	Time   int64
 }
 
 // ReadRevision reads the module whose root is moduleDir, a directory in a
 // git work tree, as it was at revision rev, from git's objects: the work
 // tree is not touched.
-func ReadRevision(moduleDir, rev string) (*Source, error) {
+func ReadRevision(moduleDir, rev string) (*Revision, error) {
 	abs, err := filepath.Abs(moduleDir)
 	if err != nil {
 		return nil, err
@@ -87,7 +80,7 @@ func ReadRevision(moduleDir, rev string) (*Source, error) {
 	if err != nil {
 		return nil, err
 	}
-	src := &Source{Files: map[string][]byte{}, Label: hash[:min(12, len(hash))] + ":"}
+	src := &compiler.Source{Files: map[string][]byte{}, Label: hash[:min(12, len(hash))] + ":"}
 	if prefix != "." {
 		src.Label += prefix + "/"
 	}
@@ -111,11 +104,11 @@ func ReadRevision(moduleDir, rev string) (*Source, error) {
 		}
 		src.Files[e.path] = data[:size]
 	}
-	src.Git = GitInfo{Revision: hash}
+	rv := &Revision{Source: src, Commit: hash}
 	if t, err := git(topDir, nil, "log", "-1", "--format=%ct", hash); err == nil {
-		src.Git.Time, _ = strconv.ParseInt(strings.TrimSpace(string(t)), 10, 64)
+		rv.Time, _ = strconv.ParseInt(strings.TrimSpace(string(t)), 10, 64)
 	}
-	return src, nil
+	return rv, nil
 }
 
 // DefaultBase is the revision a diff starts from when none is given: the

@@ -1,4 +1,4 @@
-package compiler
+package yard
 
 import (
 	"io/fs"
@@ -8,7 +8,7 @@ import (
 	"sort"
 	"strings"
 
-	"cuelang.org/go/cue"
+	"github.com/ampwright/ampwright/compiler"
 )
 
 // isHullFile matches a CUE file that declares a vessel at its top level:
@@ -18,10 +18,10 @@ var isHullFile = regexp.MustCompile(`(?m)^vessel\s*:`)
 // Hulls lists the hull packages under root, as slash paths relative to
 // it, sorted. It reads src when given, else the host file system; cue.mod
 // and hidden directories are skipped.
-func Hulls(root string, src *Source) ([]string, error) {
+func Hulls(root string, src *compiler.Source) ([]string, error) {
 	var fsys fs.FS
 	if src != nil {
-		fsys = src.fs()
+		fsys = src.FS()
 		root = "."
 	} else {
 		fsys = os.DirFS(root)
@@ -59,31 +59,4 @@ func Hulls(root string, src *Source) ([]string, error) {
 	}
 	sort.Strings(out)
 	return out, nil
-}
-
-// Inputs returns every concrete value of the design, defaults included, by
-// CUE path, as CUE prints it: what a reviewer compares between revisions.
-func (d *Design) Inputs() map[string]string {
-	out := map[string]string{}
-	var walk func(v cue.Value)
-	walk = func(v cue.Value) {
-		if it, err := v.Fields(); err == nil {
-			for it.Next() {
-				walk(it.Value())
-			}
-			return
-		}
-		if elems := elements(v); v.IncompleteKind() == cue.ListKind {
-			for _, e := range elems {
-				walk(e)
-			}
-			return
-		}
-		if !v.IsConcrete() {
-			return
-		}
-		out[v.Path().String()] = valueText(v)
-	}
-	walk(d.value)
-	return out
 }

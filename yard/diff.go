@@ -1,10 +1,12 @@
-package compiler
+package yard
 
 import (
 	"errors"
 	"path/filepath"
 
+	"github.com/ampwright/ampwright/compiler"
 	"github.com/ampwright/ampwright/result"
+	"github.com/ampwright/ampwright/schema"
 )
 
 // Side is one side of a comparison: a yard module on disk, or a yard
@@ -12,22 +14,31 @@ import (
 type Side struct {
 	// Name is how the side is shown: a revision, "working tree", a path.
 	Name string
-	// Dir is the module root on disk, used when Src is nil.
+	// Dir is the module root on disk, used when Rev is nil.
 	Dir string
-	Src *Source
+	// Rev is the module read from a git revision.
+	Rev *Revision
 }
 
-func (s Side) hulls() ([]string, error) { return Hulls(s.Dir, s.Src) }
-
-func (s Side) dir(hull string) string {
-	if s.Src != nil {
-		return hull
+func (s Side) hulls() ([]string, error) {
+	if s.Rev != nil {
+		return Hulls("", s.Rev.Source)
 	}
-	return filepath.Join(s.Dir, filepath.FromSlash(hull))
+	return Hulls(s.Dir, nil)
 }
 
-func (s Side) compile(hull string) (*result.Result, *Design, error) {
-	r, d, err := CompileFrom(s.dir(hull), s.Src)
+func (s Side) compile(hull string) (*result.Result, *compiler.Design, error) {
+	var r *result.Result
+	var d *compiler.Design
+	var err error
+	if s.Rev != nil {
+		r, d, err = compiler.CompileFrom(hull, s.Rev.Source)
+		if err == nil {
+			attach(r, Facts{Revision: s.Rev.Commit, Time: s.Rev.Time})
+		}
+	} else {
+		r, d, err = Compile(filepath.Join(s.Dir, filepath.FromSlash(hull)))
+	}
 	if r != nil {
 		r.Design.Path = hull
 	}
@@ -60,7 +71,7 @@ func DiffYard(base, head Side) (*result.YardDelta, error) {
 	}
 	yd := &result.YardDelta{Base: base.Name, Head: head.Name, Hulls: []result.HullDelta{}}
 	bq, hq := newQuickHasher(base), newQuickHasher(head)
-	for _, hull := range sortedKeys(at) {
+	for _, hull := range schema.Names(at) {
 		sides := at[hull]
 		var hd result.HullDelta
 		switch {
@@ -138,7 +149,7 @@ func diffHull(base, head Side, hull string, bq, hq *quickHasher) result.HullDelt
 
 func broken(hull string, err error) result.HullDelta {
 	hd := result.HullDelta{Path: hull, State: result.HullBroken}
-	var list ErrorList
+	var list compiler.ErrorList
 	if errors.As(err, &list) {
 		hd.Problems = list.Problems()
 	} else {
