@@ -1,47 +1,40 @@
-// Package checks holds ampwright's engineering checks. Each check is a
-// small value, Check, listed once in All; a check reads a validated design
-// and its rulebook and reports findings, never printing. `ampwright explain`
-// prints each check's Doc.
+// Package checks holds ampwright's engineering checks: verdicts over a
+// hull's system model (package model) and its energy analyses (package
+// energy). Each check is a small value, Check, listed once in All; a check
+// reports findings and the figures behind them, never printing. The
+// catalogue of figures (figures.go) gives every figure ID a title and a
+// doc; `ampwright explain` prints the docs of checks and figures alike.
 package checks
 
 import (
 	"fmt"
 	"regexp"
 
+	"github.com/ampwright/ampwright/energy"
+	"github.com/ampwright/ampwright/model"
 	"github.com/ampwright/ampwright/result"
 	"github.com/ampwright/ampwright/schema"
 )
 
-// Input is what a check reads: the decoded design, the rulebook in force,
-// and where the design declares each named entry.
+// Input is what a check reads: the system model, its energy analyses, and
+// where the design declares each named entry.
 type Input struct {
+	Sys    *model.System
+	Energy *energy.Analysis
+	// Design and Rules are the model's, for brevity.
 	Design *schema.Design
 	Rules  schema.Rulebook
 	// Position returns file:line:col for a CUE path such as
 	// wiring."bank-main", or "".
 	Position func(path string) string
-	// Network is the wiring as a tree from the bank.
-	Network *Network
-
-	budget  []ScenarioEnergy // memo of Budget
-	harvest []ArrayHarvest   // memo of Harvest
-	sim     *voyageRun       // memo of the voyage simulation
 }
 
-// Budget returns the design's energy budget, computed once per Input.
-func (in *Input) Budget() []ScenarioEnergy {
-	if in.budget == nil {
-		in.budget = Budget(in.Design)
+// NewInput is the Input of checks over sys and its analyses.
+func NewInput(sys *model.System, a *energy.Analysis, position func(string) string) *Input {
+	if position == nil {
+		position = func(string) string { return "" }
 	}
-	return in.budget
-}
-
-// Harvest returns the arrays' harvest, computed once per Input.
-func (in *Input) Harvest() []ArrayHarvest {
-	if in.harvest == nil {
-		in.harvest = Harvest(in)
-	}
-	return in.harvest
+	return &Input{Sys: sys, Energy: a, Design: sys.Design, Rules: sys.Rules, Position: position}
 }
 
 // Report collects what checks find.
@@ -59,7 +52,7 @@ func (r *Report) Figure(f result.Figure) { r.Figures = append(r.Figures, f) }
 // Check is one engineering check.
 type Check struct {
 	// ID is the stable name of the check, used in results: "bank.voltage".
-	ID string
+	ID result.CheckID
 	// Title is a one-line summary.
 	Title string
 	// Doc is what `ampwright explain ID` prints: what it checks, the
@@ -71,6 +64,7 @@ type Check struct {
 
 // All is every check, in the order they run.
 var All = []*Check{
+	SystemFigures,
 	BankVoltage,
 	EquipmentSystem,
 	Resistance,
@@ -96,7 +90,7 @@ var All = []*Check{
 // Lookup returns the check with the given ID.
 func Lookup(id string) (*Check, bool) {
 	for _, c := range All {
-		if c.ID == id {
+		if string(c.ID) == id {
 			return c, true
 		}
 	}
@@ -108,10 +102,10 @@ var idPattern = regexp.MustCompile(`^[a-z]+(\.[a-z][a-zA-Z]*)+$`)
 // Validate reports a check list with a bad or duplicate ID, or one without
 // a title, doc or run function.
 func Validate(list []*Check) error {
-	seen := map[string]bool{}
+	seen := map[result.CheckID]bool{}
 	for _, c := range list {
 		switch {
-		case !idPattern.MatchString(c.ID):
+		case !idPattern.MatchString(string(c.ID)):
 			return fmt.Errorf("check %q: ID must look like area.name", c.ID)
 		case seen[c.ID]:
 			return fmt.Errorf("check %q listed twice", c.ID)

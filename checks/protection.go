@@ -4,13 +4,13 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/ampwright/ampwright/model"
 	"github.com/ampwright/ampwright/result"
-	"github.com/ampwright/ampwright/schema"
 )
 
 // Protected checks that every run from a source is protected.
 var Protected = &Check{
-	ID:    "protection.present",
+	ID:    result.CheckProtected,
 	Title: "every run from a source is protected against overcurrent",
 	Doc: `Checks that every supply and charge run is protected against overcurrent.
 
@@ -24,8 +24,8 @@ Source: every ungrounded conductor protected at its source, 33 CFR 183.455
 and ABYC E-11 (as given in the rulebook's protection table).`,
 	Run: func(in *Input, out *Report) {
 		p := in.Rules.Protection
-		for _, r := range in.Network.Runs {
-			if r.Role == PV {
+		for _, r := range in.Sys.Runs {
+			if r.Role == model.PV {
 				continue
 			}
 			f := result.Finding{Subject: r.Name, Unit: "A", Source: sourced(p.Sourced), Position: in.Position(r.Path), Status: result.Pass}
@@ -36,13 +36,13 @@ and ABYC E-11 (as given in the rulebook's protection table).`,
 				continue
 			}
 			up := upstreamDevice(r)
-			a := conductorAmpacity(in, r.Spec, r.Spec.Size)
-			max := p.Ratio * a.derated
+			a := in.Sys.RunAmpacity(r, r.Spec.Size)
+			max := p.Ratio * a.Derated
 			switch {
 			case up == nil:
 				f.Status = result.Fail
 				f.Message = fmt.Sprintf("no fuse or breaker between the bank and this run from %q", r.Up)
-				if rating, ok := fittingRating(in, r.Current, a.derated); ok {
+				if rating, ok := fittingRating(in, r.Current, a.Derated); ok {
 					f.Change = fmt.Sprintf("fit a %g A fuse or breaker at %q", rating, r.Up)
 				}
 			default:
@@ -50,10 +50,10 @@ and ABYC E-11 (as given in the rulebook's protection table).`,
 				f.Value, f.Limit = d.Rating.Amps(), round(max, 2)
 				f.Margin = round(max-d.Rating.Amps(), 2)
 				f.Message = fmt.Sprintf("no device of its own; %s %s on run %q upstream, against %g × %s = %s allowed for this run",
-					d.Rating.Text, d.Kind, up.Name, p.Ratio, amps(a.derated), amps(max))
-				if !a.ok || d.Rating.Amps() > max {
+					d.Rating.Text, d.Kind, up.Name, p.Ratio, amps(a.Derated), amps(max))
+				if !a.OK || d.Rating.Amps() > max {
 					f.Status = result.Fail
-					if rating, ok := fittingRating(in, r.Current, a.derated); ok {
+					if rating, ok := fittingRating(in, r.Current, a.Derated); ok {
 						f.Change = fmt.Sprintf("fit a %g A fuse or breaker at %q", rating, r.Up)
 					}
 				}
@@ -64,7 +64,7 @@ and ABYC E-11 (as given in the rulebook's protection table).`,
 }
 
 // upstreamDevice is the nearest run toward the bank with a device.
-func upstreamDevice(r *Run) *Run {
+func upstreamDevice(r *model.Run) *model.Run {
 	for x := r.Parent; x != nil; x = x.Parent {
 		if x.Spec.Protection != nil {
 			return x
@@ -75,7 +75,7 @@ func upstreamDevice(r *Run) *Run {
 
 // Rating checks each device's rating against its run.
 var Rating = &Check{
-	ID:    "protection.rating",
+	ID:    result.CheckRating,
 	Title: "device rating between the design current and the ratio of ampacity",
 	Doc: `Checks each fuse or breaker's rating against the run it protects.
 
@@ -86,30 +86,30 @@ under 50 V, 33 CFR 183.455), or the conductor can overheat before the device
 opens.`,
 	Run: func(in *Input, out *Report) {
 		p := in.Rules.Protection
-		for _, r := range in.Network.Runs {
+		for _, r := range in.Sys.Runs {
 			d := r.Spec.Protection
 			if d == nil {
 				continue
 			}
-			a := conductorAmpacity(in, r.Spec, r.Spec.Size)
-			max := p.Ratio * a.derated
+			a := in.Sys.RunAmpacity(r, r.Spec.Size)
+			max := p.Ratio * a.Derated
 			rating := d.Rating.Amps()
 			f := result.Finding{
 				Subject: r.Name, Value: rating, Limit: round(max, 2), Unit: "A", Margin: round(max-rating, 2),
 				Source: sourced(p.Sourced), Position: in.Position(r.Path), Status: result.Pass,
-				Message: fmt.Sprintf("%s %s: at least the design current %s, at most %g × %s = %s", d.Rating.Text, d.ID, amps(r.Current), p.Ratio, amps(a.derated), amps(max)),
+				Message: fmt.Sprintf("%s %s: at least the design current %s, at most %g × %s = %s", d.Rating.Text, d.ID, amps(r.Current), p.Ratio, amps(a.Derated), amps(max)),
 			}
 			switch {
 			case rating < r.Current:
 				f.Status = result.Fail
 				f.Margin = round(rating-r.Current, 2)
 				f.Message = fmt.Sprintf("%s %s is below the design current %s (%s): it will open in normal use", d.Rating.Text, d.ID, amps(r.Current), r.Basis)
-			case !a.ok || rating > max:
+			case !a.OK || rating > max:
 				f.Status = result.Fail
-				f.Message = fmt.Sprintf("%s %s is above %g × %s = %s allowed for %s", d.Rating.Text, d.ID, p.Ratio, amps(a.derated), amps(max), r.Spec.Size.Text)
+				f.Message = fmt.Sprintf("%s %s is above %g × %s = %s allowed for %s", d.Rating.Text, d.ID, p.Ratio, amps(a.Derated), amps(max), r.Spec.Size.Text)
 			}
 			if f.Status == result.Fail {
-				if fit, ok := fittingRating(in, r.Current, a.derated); ok {
+				if fit, ok := fittingRating(in, r.Current, a.Derated); ok {
 					f.Change = fmt.Sprintf("use a %g A device", fit)
 				} else {
 					f.Change = changeFor(in, r)
@@ -122,7 +122,7 @@ opens.`,
 
 // Distance checks how far each device sits from its source.
 var Distance = &Check{
-	ID:    "protection.distance",
+	ID:    result.CheckDistance,
 	Title: "device within the allowed distance of its source",
 	Doc: `Checks how far along the conductor each fuse or breaker sits from the
 source end of its run.
@@ -134,14 +134,14 @@ when the conductor is sheathed or enclosed up to the device; within 72 in
 design does not give is a warning.`,
 	Run: func(in *Input, out *Report) {
 		p := in.Rules.Protection
-		for _, r := range in.Network.Runs {
+		for _, r := range in.Sys.Runs {
 			d := r.Spec.Protection
 			if d == nil {
 				continue
 			}
 			limit, why := p.Within, "unsheathed"
 			switch {
-			case d.Sheathed && r.Up == "bank":
+			case d.Sheathed && r.UpNode.Kind == model.KindBank:
 				limit, why = p.WithinBattery, "sheathed, from a battery terminal"
 			case d.Sheathed:
 				limit, why = p.WithinSheathed, "sheathed"
@@ -171,7 +171,7 @@ design does not give is a warning.`,
 
 // Interrupting checks each device can break the fault current where it sits.
 var Interrupting = &Check{
-	ID:    "protection.interrupting",
+	ID:    result.CheckInterrupting,
 	Title: "device interrupting rating at least the prospective fault current",
 	Doc: `Checks that each fuse or breaker can break the current of a bolted fault
 just beyond it.
@@ -192,27 +192,28 @@ Limit: the device's interrupting rating from the catalog (the maker's
 data). A LiFePO4 bank's low internal resistance gives fault currents of
 several thousand amperes, beyond a blade fuse's rating.`,
 	Run: func(in *Input, out *Report) {
-		b := in.Design.Bank
-		// A fully charged bank at rest drives the fault.
-		vbank := in.Rules.Protection.FaultVoltage * float64(b.Series) * b.Battery.Voltage.Volts()
-		rbank := b.Battery.Resistance.Ohms() * float64(b.Series) / float64(b.Parallel)
-		for _, r := range in.Network.Runs {
+		for _, r := range in.Sys.Runs {
 			d := r.Spec.Protection
-			if d == nil || r.Role == PV {
+			if d == nil || r.Role == model.PV {
 				continue
 			}
+			b := r.Bank.Spec
+			// A fully charged bank at rest drives the fault.
+			vbank := in.Rules.Protection.FaultVoltage * r.Bank.NominalVoltage()
+			rbank := b.Battery.Resistance.Ohms() * float64(b.Series) / float64(b.Parallel)
 			loop := 0.0
 			for x := r.Parent; x != nil; x = x.Parent {
-				res := conductorResistance(in.Rules, x.Spec, x.Spec.Size, 20)
-				loop += 2 * x.Spec.Length.Metres() * res.r20
+				res := model.ConductorResistance(in.Rules, x.Spec, x.Spec.Size, 20)
+				loop += 2 * x.Spec.Length.Metres() * res.R20
 			}
 			fault := vbank / (rbank + loop)
+			bankPath := r.Bank.Path
 			out.Figure(result.Figure{
-				ID: "protection.faultCurrent", Subject: r.Name, Value: round(fault, 1), Unit: "A",
+				ID: result.FigFaultCurrent, Subject: r.Name, Value: round(fault, 1), Unit: "A",
 				Formula: "I_fault = V_bank / (R_bank + R_upstream)",
 				Inputs: []result.Input{
 					{Name: "V_bank", Value: round(vbank, 3), Unit: "V", From: "rules.protection.faultVoltage × nominal"},
-					{Name: "R_bank", Value: round(rbank*1000, 4), Unit: "mΩ", From: "bank.battery.resistance × series ÷ parallel"},
+					{Name: "R_bank", Value: round(rbank*1000, 4), Unit: "mΩ", From: bankPath + ".battery.resistance × series ÷ parallel"},
 					{Name: "R_upstream", Value: round(loop*1000, 4), Unit: "mΩ", From: "runs between the bank and " + r.Up},
 				},
 				Source: "Ohm's law; battery internal resistance from the catalog",
@@ -228,7 +229,7 @@ several thousand amperes, beyond a blade fuse's rating.`,
 			if fault > ir {
 				f.Status = result.Fail
 				f.Change = fmt.Sprintf("use a device rated to interrupt at least %s", amps(math.Ceil(fault/100)*100))
-				if r.Up != "bank" {
+				if main := mainDevice(r); r.UpNode.Kind != model.KindBank && (main == nil || main.Spec.Protection.Interrupting.Amps() < fault) {
 					f.Change += fmt.Sprintf(", or fit a main fuse of that interrupting rating between the bank and %q", r.Up)
 				}
 			}
@@ -237,9 +238,20 @@ several thousand amperes, beyond a blade fuse's rating.`,
 	},
 }
 
+// mainDevice is the device nearest the bank on r's way to it, or nil.
+func mainDevice(r *model.Run) *model.Run {
+	var main *model.Run
+	for x := r.Parent; x != nil; x = x.Parent {
+		if x.Spec.Protection != nil {
+			main = x
+		}
+	}
+	return main
+}
+
 // StringFuse checks the string fuses of each array.
 var StringFuse = &Check{
-	ID:    "pv.stringFuse",
+	ID:    result.CheckStringFuse,
 	Title: "string fuses where parallel strings can back-feed a faulted one",
 	Doc: `Checks whether each array needs string fuses, and that the fitted ones fit.
 
@@ -253,8 +265,8 @@ and I_n ≤ the module's maximum series fuse rating (default 1.5 and 2.4,
 IEC 62548, as given in the rulebook's pv table).`,
 	Run: func(in *Input, out *Report) {
 		pv := in.Rules.PV
-		for _, name := range schema.Names(in.Design.Arrays) {
-			a := in.Design.Arrays[name]
+		for _, arr := range in.Sys.Arrays {
+			name, a := arr.Name, arr.Spec
 			isc := a.Module.Isc.Amps()
 			maxFuse := a.Module.MaxSeriesFuse.Amps()
 			back := float64(a.Strings-1) * isc

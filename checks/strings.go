@@ -3,14 +3,15 @@ package checks
 import (
 	"fmt"
 
-	"github.com/ampwright/ampwright/checks/solar"
+	"github.com/ampwright/ampwright/energy"
+	"github.com/ampwright/ampwright/energy/solar"
 	"github.com/ampwright/ampwright/result"
 	"github.com/ampwright/ampwright/schema"
 )
 
 // ColdVoc checks the strings' open-circuit voltage at the record low.
 var ColdVoc = &Check{
-	ID:    "pv.coldVoc",
+	ID:    result.CheckColdVoc,
 	Title: "string open-circuit voltage at the record low within the controller's maximum",
 	Doc: `Checks that a string's open-circuit voltage on the coldest morning stays
 within the controller's maximum PV voltage.
@@ -28,9 +29,9 @@ the controller can be destroyed.`,
 	Run: func(in *Input, out *Report) {
 		d := in.Design
 		tmin := d.Site.RecordLow.Celsius()
-		for _, name := range schema.Names(d.Arrays) {
-			a := d.Arrays[name]
-			ctrl := d.Controllers[a.Controller].Part
+		for _, arr := range in.Sys.Arrays {
+			name, a := arr.Name, arr.Spec
+			ctrl := arr.Controller.Spec.Part
 			voc := a.Module.Voc.Volts()
 			ns := float64(a.Series)
 			var vmax float64
@@ -40,14 +41,14 @@ the controller can be destroyed.`,
 				how = fmt.Sprintf("%d × %s × (1 + %s × (%s − 25 °C))", a.Series, a.Module.Voc.Text, b.Text, d.Site.RecordLow.Text)
 				source = "NEC 690.7, temperature-coefficient method (from memory; verify against the edition you work to)"
 			} else {
-				f := rowFactor(in.Rules.VocFactor.Rows, tmin)
+				f := energy.RowFactor(in.Rules.VocFactor.Rows, tmin)
 				vmax = ns * voc * f
 				how = fmt.Sprintf("%d × %s × %g (table factor at %s)", a.Series, a.Module.Voc.Text, f, d.Site.RecordLow.Text)
 				source = sourced(in.Rules.VocFactor.Sourced)
 			}
 			lim := ctrl.MaxPVVoltage.Volts()
 			out.Figure(result.Figure{
-				ID: "pv.coldVoc", Subject: name, Value: round(vmax, 2), Unit: "V",
+				ID: result.FigColdVoc, Subject: name, Value: round(vmax, 2), Unit: "V",
 				Formula: "Voc_max = N_series × Voc × (1 + βVoc × (T_min − 25 °C))",
 				Inputs: []result.Input{
 					{Name: "N_series", Value: ns, From: "arrays." + quotePath(name) + ".series"},
@@ -75,7 +76,7 @@ the controller can be destroyed.`,
 // HotVmp checks an MPPT array's voltage stays above the charging voltage
 // when hot.
 var HotVmp = &Check{
-	ID:    "pv.hotVmp",
+	ID:    result.CheckHotVmp,
 	Title: "string Vmp when hot above the charging voltage plus the controller's headroom",
 	Doc: `Checks that an MPPT controller can still charge on the hottest day: the
 string's maximum-power voltage at its hottest must exceed the bank's
@@ -96,10 +97,10 @@ series (or the rulebook's multiple of nominal). PWM controllers are not
 checked: they hold the array at battery voltage.`,
 	Run: func(in *Input, out *Report) {
 		d := in.Design
-		vcharge := chargeVoltage(d, in.Rules)
-		for _, name := range schema.Names(d.Arrays) {
-			a := d.Arrays[name]
-			ctrl := d.Controllers[a.Controller].Part
+		for _, arr := range in.Sys.Arrays {
+			name, a := arr.Name, arr.Spec
+			ctrl := arr.Controller.Spec.Part
+			vcharge := energy.ChargeVoltage(arr.Controller.Node.Bank, in.Rules)
 			if ctrl.Kind != "mppt" {
 				continue
 			}
@@ -110,7 +111,7 @@ checked: they hold the array at battery voltage.`,
 				tc = solar.CellTempNOCT(1000, ta, n.Celsius())
 				model = "NOCT " + n.Text
 			} else {
-				p, m := sandiaFor(a.Module.Construction, a.Mount)
+				p, m := energy.SandiaFor(a.Module.Construction, a.Mount)
 				tc = solar.SandiaCellTemp(1000, ta, d.Site.WindSpeed, p.A, p.B, p.DeltaT)
 				model = m
 			}
@@ -138,7 +139,7 @@ checked: they hold the array at battery voltage.`,
 
 // InputCurrent checks the controller's PV input current.
 var InputCurrent = &Check{
-	ID:    "pv.inputCurrent",
+	ID:    result.CheckInputCurrent,
 	Title: "PV input current within the controller's rating",
 	Doc: `Checks the array's maximum current against the controller's PV input
 rating.
@@ -150,15 +151,14 @@ controller their currents add.
 Limit: the controller's maximum PV input current (maker's data). A
 controller whose catalog entry gives none is reported as a warning.`,
 	Run: func(in *Input, out *Report) {
-		d := in.Design
 		pv := in.Rules.PV
 		per := map[string]float64{}
-		for _, name := range schema.Names(d.Arrays) {
-			a := d.Arrays[name]
+		for _, arr := range in.Sys.Arrays {
+			a := arr.Spec
 			per[a.Controller] += pv.InputFactor * a.Module.Isc.Amps() * float64(a.Strings)
 		}
 		for _, cn := range schema.Names(per) {
-			ctrl := d.Controllers[cn].Part
+			ctrl := in.Sys.Controller(cn).Spec.Part
 			i := per[cn]
 			f := result.Finding{
 				Subject: cn, Value: round(i, 2), Unit: "A", Source: sourced(pv.Sourced),

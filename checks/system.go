@@ -5,6 +5,7 @@ import (
 	"math"
 	"slices"
 
+	"github.com/ampwright/ampwright/model"
 	"github.com/ampwright/ampwright/result"
 	"github.com/ampwright/ampwright/schema"
 )
@@ -16,7 +17,7 @@ const bankVoltageTolerance = 0.10
 
 // BankVoltage checks that the bank's arrangement gives the system voltage.
 var BankVoltage = &Check{
-	ID:    "bank.voltage",
+	ID:    result.CheckBankVoltage,
 	Title: "bank nominal voltage matches the system voltage",
 	Doc: `Checks that the batteries in series give the boat's nominal system voltage.
 
@@ -32,36 +33,42 @@ tolerance admits the nominal voltages of the chemistries (12.8 V for a
 four-cell LiFePO4 battery on a 12 V system); it is common practice, not a
 published rule. A bank outside it is wired for another system voltage.`,
 	Run: func(in *Input, out *Report) {
-		d := in.Design
-		sys := d.Vessel.SystemVolts()
-		vb := float64(d.Bank.Series) * d.Bank.Battery.Voltage.Volts()
-		dev := math.Abs(vb-sys) / sys * 100
-		f := result.Finding{
-			Subject:  "bank",
-			Value:    round(dev, 3),
-			Limit:    bankVoltageTolerance * 100,
-			Unit:     "%",
-			Margin:   round(bankVoltageTolerance*100-dev, 3),
-			Source:   "common practice (tolerance for nominal cell voltages)",
-			Position: in.Position("bank"),
-			Message: fmt.Sprintf("%d × %s = %s nominal on a %s system (%.1f %% off)",
-				d.Bank.Series, d.Bank.Battery.Voltage.Text, volts(vb), d.Vessel.System, dev),
-			Status: result.Pass,
+		for _, b := range in.Sys.Banks {
+			bankVoltage(in, b, out)
 		}
-		if dev > bankVoltageTolerance*100 {
-			f.Status = result.Fail
-			if n := int(math.Round(sys / d.Bank.Battery.Voltage.Volts())); n >= 1 {
-				f.Change = fmt.Sprintf("put %d batteries in series (%s), or choose a battery for the %s system", n, volts(float64(n)*d.Bank.Battery.Voltage.Volts()), d.Vessel.System)
-			}
-		}
-		out.Add(f)
 	},
+}
+
+func bankVoltage(in *Input, b *model.Bank, out *Report) {
+	spec := b.Spec
+	sys := b.Volts
+	vb := b.NominalVoltage()
+	dev := math.Abs(vb-sys) / sys * 100
+	f := result.Finding{
+		Subject:  b.Name,
+		Value:    round(dev, 3),
+		Limit:    bankVoltageTolerance * 100,
+		Unit:     "%",
+		Margin:   round(bankVoltageTolerance*100-dev, 3),
+		Source:   "common practice (tolerance for nominal cell voltages)",
+		Position: in.Position(b.Path),
+		Message: fmt.Sprintf("%d × %s = %s nominal on a %s system (%.1f %% off)",
+			spec.Series, spec.Battery.Voltage.Text, volts(vb), b.System, dev),
+		Status: result.Pass,
+	}
+	if dev > bankVoltageTolerance*100 {
+		f.Status = result.Fail
+		if n := int(math.Round(sys / spec.Battery.Voltage.Volts())); n >= 1 {
+			f.Change = fmt.Sprintf("put %d batteries in series (%s), or choose a battery for the %s system", n, volts(float64(n)*spec.Battery.Voltage.Volts()), b.System)
+		}
+	}
+	out.Add(f)
 }
 
 // EquipmentSystem checks that each charge controller and inverter is made
 // for the system voltage.
 var EquipmentSystem = &Check{
-	ID:    "equipment.system",
+	ID:    result.CheckEquipmentSystem,
 	Title: "controllers and inverters are rated for the system voltage",
 	Doc: `Checks that every charge controller and inverter lists the boat's
 nominal system voltage among the battery voltages it is made for.
@@ -72,12 +79,12 @@ warning: its datasheet must be checked by hand.
 
 Source: the maker's data for the part, as entered in the yard catalog.`,
 	Run: func(in *Input, out *Report) {
-		d := in.Design
-		check := func(path, subject string, part schema.Part, systems []string) {
+		check := func(path, subject string, part schema.Part, systems []string, side float64) {
+			system := model.VoltText(side)
 			f := result.Finding{
 				Subject:  subject,
-				Limit:    d.Vessel.SystemVolts(),
-				Value:    d.Vessel.SystemVolts(),
+				Limit:    side,
+				Value:    side,
 				Unit:     "V",
 				Source:   "catalog data for " + part.ID,
 				Position: in.Position(path),
@@ -87,21 +94,34 @@ Source: the maker's data for the part, as entered in the yard catalog.`,
 			switch {
 			case len(systems) == 0:
 				f.Status = result.Warn
-				f.Message = fmt.Sprintf("the catalog lists no system voltages for %s; check its datasheet for %s", part.ID, d.Vessel.System)
-			case !slices.Contains(systems, d.Vessel.System):
+				f.Message = fmt.Sprintf("the catalog lists no system voltages for %s; check its datasheet for %s", part.ID, system)
+			case !slices.Contains(systems, system):
 				f.Status = result.Fail
-				f.Message = fmt.Sprintf("%s is made for %v, not %s", part.ID, systems, d.Vessel.System)
-				f.Change = fmt.Sprintf("choose a part made for %s", d.Vessel.System)
+				f.Message = fmt.Sprintf("%s is made for %v, not %s", part.ID, systems, system)
+				f.Change = fmt.Sprintf("choose a part made for %s", system)
 			}
 			out.Add(f)
 		}
-		for _, name := range schema.Names(d.Controllers) {
-			c := d.Controllers[name]
-			check(`controllers.`+quotePath(name), name, c.Part.Part, c.Part.Systems)
+		s := in.Sys
+		for _, c := range s.Controllers {
+			check(c.Path, c.Name, c.Spec.Part.Part, c.Spec.Part.Systems, c.Node.Volts)
 		}
-		for _, name := range schema.Names(d.Inverters) {
-			inv := d.Inverters[name]
-			check(`inverters.`+quotePath(name), name, inv.Part.Part, inv.Part.Systems)
+		for _, inv := range s.Inverters {
+			check(inv.Path, inv.Name, inv.Spec.Part.Part, inv.Spec.Part.Systems, inv.Node.Volts)
+		}
+		for _, src := range s.Sources {
+			if ch := src.Charger; ch != nil && ch.Part != nil {
+				check(src.Path, src.Name, ch.Part.Part, ch.Part.Systems, src.Node.Volts)
+			}
+		}
+		for _, c := range s.Converters {
+			check(c.Path, c.Name, c.Spec.Part.Part, c.Spec.Part.Inputs, c.In)
+		}
+		for _, l := range s.Links {
+			if p := l.Spec.Part; p.Kind == "dc-dc" {
+				check(l.Path, l.Name+" input", p.Part, p.Inputs, l.From.Volts)
+				check(l.Path, l.Name+" output", p.Part, p.Outputs, l.To.Volts)
+			}
 		}
 	},
 }

@@ -3,14 +3,15 @@ package checks
 import (
 	"fmt"
 
+	"github.com/ampwright/ampwright/energy"
+	"github.com/ampwright/ampwright/model"
 	"github.com/ampwright/ampwright/result"
-	"github.com/ampwright/ampwright/schema"
 	"github.com/ampwright/ampwright/schema/unit"
 )
 
 // VoltageDrop checks each run's voltage drop against its class limit.
 var VoltageDrop = &Check{
-	ID:    "wiring.voltageDrop",
+	ID:    result.CheckVoltageDrop,
 	Title: "voltage drop of each run within its class limit",
 	Doc: `Checks the voltage drop of every conductor run at its design current.
 
@@ -36,33 +37,45 @@ lights, bilge pumps and blowers, electronics, panelboard main feeders, and
 A failing run is given the smallest standard size of its family (AWG or
 mm²) that passes every wiring check.`,
 	Run: func(in *Input, out *Report) {
-		for _, r := range in.Network.Runs {
+		for _, r := range in.Sys.Runs {
 			if r.DropCurrent <= 0 {
 				continue
 			}
 			m := measure(in, r, r.Spec.Size)
-			limit := dropLimit(in.Rules, r.Class)
-			out.Figure(result.Figure{
-				ID: "wiring.voltageDrop", Subject: r.Name, Value: round(m.dropPct, 3), Unit: "%",
+			limit := model.DropLimit(in.Rules, r.Class)
+			fig := result.Figure{
+				ID: result.FigVoltageDrop, Subject: r.Name, Value: round(m.drop.Pct, 3), Unit: "%",
 				Formula: "drop = I × 2 × L × R′(T) / V × 100",
 				Inputs: []result.Input{
 					{Name: "I", Value: round(r.DropCurrent, 3), Unit: "A", From: r.DropBasis},
 					{Name: "L", Value: round(r.Spec.Length.Metres(), 4), Unit: "m", From: r.Path + ".length"},
-					{Name: "R′(T)", Value: round(m.res.rT*1000, 5), Unit: "mΩ/m", From: "wiring.resistance"},
+					{Name: "R′(T)", Value: round(m.drop.Res.RT*1000, 5), Unit: "mΩ/m", From: string(result.FigResistance)},
 					{Name: "V", Value: round(r.DropVoltage, 3), Unit: "V", From: r.VoltBasis},
 				},
 				Source: in.Rules.VoltageDrop.Source,
-			})
+			}
+			how := fmt.Sprintf("%s × 2 × %s × %.4g mΩ/m", amps(r.DropCurrent), lengthText(in, r.Spec.Length.Metres()), m.drop.Res.RT*1000)
+			if !r.Ret.Mirror {
+				fig.Formula = "drop = (I × L × R′(T) + I_ret × L_ret × R′_ret(T)) / V × 100"
+				fig.Inputs = append(fig.Inputs[:3:3],
+					result.Input{Name: "I_ret", Value: round(m.drop.RetCurrent, 3), Unit: "A", From: returnFrom(r)},
+					result.Input{Name: "L_ret", Value: round(m.drop.RetLength, 4), Unit: "m", From: returnFrom(r)},
+					result.Input{Name: "R′_ret(T)", Value: round(m.drop.RetRes.RT*1000, 5), Unit: "mΩ/m", From: returnFrom(r)},
+					fig.Inputs[3])
+				how = fmt.Sprintf("%s × %s × %.4g mΩ/m + %s × %s × %.4g mΩ/m", amps(r.DropCurrent), lengthText(in, r.Spec.Length.Metres()), m.drop.Res.RT*1000,
+					amps(m.drop.RetCurrent), lengthText(in, m.drop.RetLength), m.drop.RetRes.RT*1000)
+			}
+			out.Figure(fig)
 			f := result.Finding{
-				Subject: r.Name, Value: round(m.dropPct, 2), Limit: limit, Unit: "%",
-				Margin:   round(limit-m.dropPct, 2),
+				Subject: r.Name, Value: round(m.drop.Pct, 2), Limit: limit, Unit: "%",
+				Margin:   round(limit-m.drop.Pct, 2),
 				Source:   sourced(in.Rules.VoltageDrop.Sourced),
 				Position: in.Position(r.Path),
-				Message: fmt.Sprintf("%s × 2 × %s × %.4g mΩ/m = %.3g V, %.2f %% of %s (%s: %s)",
-					amps(r.DropCurrent), lengthText(in, r.Spec.Length.Metres()), m.res.rT*1000, m.dropV, m.dropPct, volts(r.DropVoltage), r.Class, r.ClassBasis),
+				Message: fmt.Sprintf("%s = %.3g V, %.2f %% of %s (%s: %s)",
+					how, m.drop.Volts, m.drop.Pct, volts(r.DropVoltage), r.Class, r.ClassBasis),
 				Status: result.Pass,
 			}
-			if m.dropPct > limit {
+			if m.drop.Pct > limit {
 				f.Status = result.Fail
 				f.Change = changeFor(in, r)
 			}
@@ -73,7 +86,7 @@ mm²) that passes every wiring check.`,
 
 // Resistance reports each run's resistance at its conductor temperature.
 var Resistance = &Check{
-	ID:    "wiring.resistance",
+	ID:    result.CheckResistance,
 	Title: "resistance of each conductor at its temperature",
 	Doc: `Finds the resistance per metre of every conductor at the temperature
 the voltage-drop check uses, and warns where it had to fall back on a
@@ -93,22 +106,22 @@ constant K = 10.75 Ω·cmil/ft is copper at about 29 °C, where 20 °C copper is
 10.37), or the engine-space temperature for a run through an engine space
 when that is higher.`,
 	Run: func(in *Input, out *Report) {
-		for _, r := range in.Network.Runs {
-			res := conductorResistance(in.Rules, r.Spec, r.Spec.Size, runTemperature(in, r.Spec))
+		for _, r := range allRuns(in) {
+			res := model.ConductorResistance(in.Rules, r.Spec, r.Spec.Size, in.Sys.Temperature(r.Spec))
 			out.Figure(result.Figure{
-				ID: "wiring.resistance", Subject: r.Name, Value: round(res.rT*1000, 5), Unit: "mΩ/m",
-				Formula: "R′(T) = R′(20 °C) × (1 + α × (T − 20 °C)); " + res.basis,
+				ID: result.FigResistance, Subject: r.Name, Value: round(res.RT*1000, 5), Unit: "mΩ/m",
+				Formula: "R′(T) = R′(20 °C) × (1 + α × (T − 20 °C)); " + res.Basis,
 				Inputs: []result.Input{
-					{Name: "R′(20 °C)", Value: round(res.r20*1000, 5), Unit: "mΩ/m", From: r.Path + ".size"},
+					{Name: "R′(20 °C)", Value: round(res.R20*1000, 5), Unit: "mΩ/m", From: r.Path + ".size"},
 					{Name: "α", Value: in.Rules.Resistance.Alpha, Unit: "1/K", From: "rules.resistance.alpha"},
-					{Name: "T", Value: res.temp, Unit: "°C", From: "rules.resistance.temperature"},
+					{Name: "T", Value: res.Temp, Unit: "°C", From: "rules.resistance.temperature"},
 				},
 				Source: in.Rules.Resistance.Source,
 			})
-			if !res.fromTable {
+			if !res.FromTable {
 				out.Add(result.Finding{
-					Subject: r.Name, Status: result.Warn, Value: round(res.rT*1000, 5), Unit: "mΩ/m",
-					Message:  fmt.Sprintf("%s is not in the rulebook's resistance table; %s", r.Spec.Size.Text, res.basis),
+					Subject: r.Name, Status: result.Warn, Value: round(res.RT*1000, 5), Unit: "mΩ/m",
+					Message:  fmt.Sprintf("%s is not in the rulebook's resistance table; %s", r.Spec.Size.Text, res.Basis),
 					Source:   sourced(in.Rules.Resistance.Sourced),
 					Position: in.Position(r.Path),
 				})
@@ -119,7 +132,7 @@ when that is higher.`,
 
 // Ampacity checks each run's derated ampacity against its design current.
 var Ampacity = &Check{
-	ID:    "wiring.ampacity",
+	ID:    result.CheckAmpacity,
 	Title: "derated ampacity of each run at least its design current",
 	Doc: `Checks that every conductor can carry its design current.
 
@@ -141,43 +154,43 @@ I_allowed. A solar run follows NEC 690.8(B): 1.56 × Isc × strings must not
 exceed I_table, and 1.25 × Isc × strings must not exceed I_allowed (the
 rulebook's conductorFactor and inputFactor).`,
 	Run: func(in *Input, out *Report) {
-		for _, r := range in.Network.Runs {
-			a := conductorAmpacity(in, r.Spec, r.Spec.Size)
+		for _, r := range allRuns(in) {
+			a := in.Sys.RunAmpacity(r, r.Spec.Size)
 			f := result.Finding{
 				Subject: r.Name, Unit: "A", Value: round(r.Current, 2),
 				Source:   sourced(in.Rules.Ampacity.Sourced),
 				Position: in.Position(r.Path),
 				Status:   result.Pass,
 			}
-			if !a.ok {
+			if !a.OK {
 				f.Status = result.Fail
-				f.Message = a.note
+				f.Message = a.Note
 				f.Change = changeFor(in, r)
 				out.Add(f)
 				continue
 			}
 			out.Figure(result.Figure{
-				ID: "wiring.ampacity", Subject: r.Name, Value: round(a.derated, 2), Unit: "A",
+				ID: result.FigAmpacity, Subject: r.Name, Value: round(a.Derated, 2), Unit: "A",
 				Formula: "I_allowed = I_table × F_engine × F_bundle",
 				Inputs: []result.Input{
-					{Name: "I_table", Value: a.table, Unit: "A", From: fmt.Sprintf("rules.ampacity.table[%q][%q]", a.sizeKey, a.ratingKey)},
-					{Name: "F_engine", Value: a.engine, From: r.Path + ".engineSpace"},
-					{Name: "F_bundle", Value: a.bundle, From: r.Path + ".bundle"},
+					{Name: "I_table", Value: a.Table, Unit: "A", From: fmt.Sprintf("rules.ampacity.table[%q][%q]", a.SizeKey, a.RatingKey)},
+					{Name: "F_engine", Value: a.Engine, From: r.Path + ".engineSpace"},
+					{Name: "F_bundle", Value: a.Bundle, From: r.Path + ".bundle"},
 				},
 				Source: in.Rules.Ampacity.Source,
 			})
 			need, needDerated := ampacityNeeds(in, r)
-			f.Limit = round(a.derated, 2)
-			f.Margin = round(a.derated-needDerated, 2)
+			f.Limit = round(a.Derated, 2)
+			f.Margin = round(a.Derated-needDerated, 2)
 			f.Value = round(needDerated, 2)
-			f.Message = fmt.Sprintf("%s design current (%s) against %g A × %g × %g = %s allowed", amps(needDerated), r.Basis, a.table, a.engine, a.bundle, amps(a.derated))
-			if r.Role == PV {
-				f.Message = fmt.Sprintf("solar run (NEC 690.8(B)): %s before derating against %g A in the table, %s after against %g A × %g × %g = %s", amps(need), a.table, amps(needDerated), a.table, a.engine, a.bundle, amps(a.derated))
+			f.Message = fmt.Sprintf("%s design current (%s) against %g A × %g × %g = %s allowed", amps(needDerated), r.Basis, a.Table, a.Engine, a.Bundle, amps(a.Derated))
+			if r.Role == model.PV {
+				f.Message = fmt.Sprintf("solar run (NEC 690.8(B)): %s before derating against %g A in the table, %s after against %g A × %g × %g = %s", amps(need), a.Table, amps(needDerated), a.Table, a.Engine, a.Bundle, amps(a.Derated))
 			}
-			if a.note != "" {
-				f.Message += "; " + a.note
+			if a.Note != "" {
+				f.Message += "; " + a.Note
 			}
-			if needDerated > a.derated || need > a.table {
+			if needDerated > a.Derated || need > a.Table {
 				f.Status = result.Fail
 				f.Change = changeFor(in, r)
 			}
@@ -188,7 +201,7 @@ rulebook's conductorFactor and inputFactor).`,
 
 // MinimumSize checks each conductor against the smallest size allowed.
 var MinimumSize = &Check{
-	ID:    "wiring.minimumSize",
+	ID:    result.CheckMinimumSize,
 	Title: "no conductor smaller than the minimum size",
 	Doc: `Checks that no conductor is smaller than the rulebook's minimum size.
 
@@ -196,7 +209,7 @@ Limit: the rulebook's general minimum, or its minimum for conductors in a
 sheath (default: 16 AWG, or 18 AWG inside a sheath, 33 CFR 183.425).`,
 	Run: func(in *Input, out *Report) {
 		ms := in.Rules.MinimumSize
-		for _, r := range in.Network.Runs {
+		for _, r := range allRuns(in) {
 			min := ms.General
 			if r.Spec.Sheathed {
 				min = ms.Sheathed
@@ -219,36 +232,41 @@ sheath (default: 16 AWG, or 18 AWG inside a sheath, 33 CFR 183.425).`,
 	},
 }
 
-// measured is a run's drop and ampacity at one size.
-type measured struct {
-	res     resistance
-	dropV   float64
-	dropPct float64
-	amp     ampacity
+// allRuns are the positive runs, then the negative conductors the design
+// draws: the conductor checks apply to both.
+func allRuns(in *Input) []*model.Run {
+	return append(in.Sys.Runs[:len(in.Sys.Runs):len(in.Sys.Runs)], in.Sys.Returns...)
 }
 
-func measure(in *Input, r *Run, size unit.Size) measured {
-	res := conductorResistance(in.Rules, r.Spec, size, runTemperature(in, r.Spec))
-	dv := voltageDrop(r.DropCurrent, r.Spec.Length.Metres(), res.rT)
-	return measured{
-		res:     res,
-		dropV:   dv,
-		dropPct: dv / r.DropVoltage * 100,
-		amp:     conductorAmpacity(in, r.Spec, size),
+// returnFrom says where a run's return conductor comes from.
+func returnFrom(r *model.Run) string {
+	if v := r.Ret.Via; v != nil {
+		return v.Path
 	}
+	return r.Path + ".return"
+}
+
+// measured is a run's drop and ampacity at one size.
+type measured struct {
+	drop model.Drop
+	amp  model.Ampacity
+}
+
+func measure(in *Input, r *model.Run, size unit.Size) measured {
+	return measured{drop: in.Sys.RunDrop(r, size), amp: in.Sys.RunAmpacity(r, size)}
 }
 
 // passesWiring reports whether the run at size passes the voltage-drop,
 // ampacity and minimum-size checks.
-func passesWiring(in *Input, r *Run, size unit.Size) (measured, bool) {
+func passesWiring(in *Input, r *model.Run, size unit.Size) (measured, bool) {
 	m := measure(in, r, size)
 	min := in.Rules.MinimumSize.General
 	if r.Spec.Sheathed {
 		min = in.Rules.MinimumSize.Sheathed
 	}
 	need, needDerated := ampacityNeeds(in, r)
-	ok := m.amp.ok && need <= m.amp.table && needDerated <= m.amp.derated &&
-		m.dropPct <= dropLimit(in.Rules, r.Class) &&
+	ok := m.amp.OK && need <= m.amp.Table && needDerated <= m.amp.Derated &&
+		m.drop.Pct <= model.DropLimit(in.Rules, r.Class) &&
 		size.MM2() >= min.MM2()*(1-1e-9)
 	return m, ok
 }
@@ -257,8 +275,8 @@ func passesWiring(in *Input, r *Run, size unit.Size) (measured, bool) {
 // after derating. For most runs both are the design current. A solar run
 // follows NEC 690.8(B): the conductor carries conductorFactor × Isc (1.56)
 // before correction and adjustment, and inputFactor × Isc (1.25) after.
-func ampacityNeeds(in *Input, r *Run) (table, derated float64) {
-	if r.Role != PV {
+func ampacityNeeds(in *Input, r *model.Run) (table, derated float64) {
+	if r.Role != model.PV {
 		return r.Current, r.Current
 	}
 	pv := in.Rules.PV
@@ -268,7 +286,7 @@ func ampacityNeeds(in *Input, r *Run) (table, derated float64) {
 // SmallestPassingSize returns the smallest standard size in the run's
 // family (AWG or mm²), at least its present size, that passes every wiring
 // check, and false when none does.
-func SmallestPassingSize(in *Input, r *Run) (unit.Size, measured, bool) {
+func SmallestPassingSize(in *Input, r *model.Run) (unit.Size, measured, bool) {
 	for _, s := range standardSizes(in, r.Spec.Size) {
 		if s.MM2() < r.Spec.Size.MM2()*(1-1e-9) {
 			continue
@@ -294,7 +312,7 @@ func standardSizes(in *Input, like unit.Size) []unit.Size {
 		return out
 	}
 	for _, a := range unit.StandardMetric() {
-		if _, _, ok := lookupSize(in.Rules.Resistance.Metric.Plain, a); !ok {
+		if _, _, ok := model.LookupSize(in.Rules.Resistance.Metric.Plain, a); !ok {
 			continue
 		}
 		if q, err := unit.ParseAs(fmt.Sprintf("%g mm²", a), unit.DimSize); err == nil {
@@ -306,7 +324,7 @@ func standardSizes(in *Input, like unit.Size) []unit.Size {
 
 // changeFor says what to change on a run that fails a wiring check: the
 // smallest passing size and the protection rating that then fits.
-func changeFor(in *Input, r *Run) string {
+func changeFor(in *Input, r *model.Run) string {
 	s, m, ok := SmallestPassingSize(in, r)
 	if !ok {
 		return fmt.Sprintf("no standard %s size passes: shorten the run, split the load, or raise the system voltage", r.Spec.Size.Family())
@@ -314,8 +332,8 @@ func changeFor(in *Input, r *Run) string {
 	if s.MM2() <= r.Spec.Size.MM2()*(1+1e-9) {
 		return ""
 	}
-	msg := fmt.Sprintf("use %s: drop %.2f %% (limit %g %%), %s allowed", s.String(), m.dropPct, dropLimit(in.Rules, r.Class), amps(m.amp.derated))
-	if rating, ok := fittingRating(in, r.Current, m.amp.derated); ok && (r.Spec.Protection != nil || r.Up == "bank") {
+	msg := fmt.Sprintf("use %s: drop %.2f %% (limit %g %%), %s allowed", s.String(), m.drop.Pct, model.DropLimit(in.Rules, r.Class), amps(m.amp.Derated))
+	if rating, ok := fittingRating(in, r.Current, m.amp.Derated); ok && (r.Spec.Protection != nil || r.UpNode.Kind == model.KindBank) {
 		msg += fmt.Sprintf(", protected at %g A", rating)
 	}
 	return msg
@@ -342,9 +360,4 @@ func fittingRating(in *Input, current, ampacity float64) (float64, bool) {
 }
 
 // sourced is a rulebook table's source with its caveat.
-func sourced(s schema.Sourced) string {
-	if c := s.Caveat(); c != "" {
-		return s.Source + " (" + c + ")"
-	}
-	return s.Source
-}
+var sourced = energy.Sourced

@@ -10,52 +10,6 @@ import (
 	"github.com/ampwright/ampwright/schema/unit"
 )
 
-// runSpec is one hand-made run for the wiring checks.
-type runSpec struct {
-	size, length string
-	material     string // "copper" or "tinned-copper"
-	insulation   string // "" for 105 °C
-	engineSpace  bool
-	bundle       int // 0 for 1
-	current      float64
-	volts        float64 // nominal system voltage: 12, 24 or 48
-	class        string
-}
-
-// oneRun builds an Input whose network is the one run "run" from the bank,
-// with the default rulebook, a 50 °C engine space and metric output.
-func oneRun(t *testing.T, s runSpec) (*Input, *Run) {
-	t.Helper()
-	ins := s.insulation
-	if ins == "" {
-		ins = "105 °C"
-	}
-	b := s.bundle
-	if b == 0 {
-		b = 1
-	}
-	spec := &schema.Conductor{
-		From: "bank", To: "load", Length: lengthOf(t, s.length), Size: sizeOf(t, s.size),
-		Material: s.material, Insulation: tempOf(t, ins), EngineSpace: s.engineSpace, Bundle: b,
-	}
-	r := &Run{
-		Name: "run", Path: `wiring.run`, Spec: spec, Up: "bank", Down: "load", Role: Supply,
-		Current: s.current, Basis: "test", DropCurrent: s.current, DropBasis: "test",
-		DropVoltage: s.volts, VoltBasis: "nominal system voltage", Class: s.class, ClassBasis: "test",
-	}
-	system := map[float64]string{12: "12 V", 24: "24 V", 48: "48 V"}[s.volts]
-	in := &Input{
-		Design: &schema.Design{
-			Vessel: schema.Vessel{System: system, Units: "metric"},
-			Site:   schema.Site{EngineSpace: tempOf(t, "50 °C")},
-		},
-		Rules:    defaultRulebook(t),
-		Position: func(string) string { return "" },
-		Network:  &Network{Runs: []*Run{r}},
-	}
-	return in, r
-}
-
 // dropOf runs the voltage-drop check over in and returns its one figure
 // and one finding.
 func dropOf(t *testing.T, in *Input) (result.Figure, result.Finding) {
@@ -194,8 +148,8 @@ func TestVoltageDropUnits(t *testing.T) {
 			ina, ra := oneRun(t, p.a)
 			inb, rb := oneRun(t, p.b)
 			ma, mb := measure(ina, ra, ra.Spec.Size), measure(inb, rb, rb.Spec.Size)
-			if math.Abs(ma.dropV-mb.dropV) > 1e-12*ma.dropV || ma.dropV == 0 {
-				t.Errorf("drop %s = %.15g V, %s = %.15g V; want the same", p.a.length, ma.dropV, p.b.length, mb.dropV)
+			if math.Abs(ma.drop.Volts-mb.drop.Volts) > 1e-12*ma.drop.Volts || ma.drop.Volts == 0 {
+				t.Errorf("drop %s = %.15g V, %s = %.15g V; want the same", p.a.length, ma.drop.Volts, p.b.length, mb.drop.Volts)
 			}
 			fa, _ := dropOf(t, ina)
 			fb, _ := dropOf(t, inb)
@@ -314,7 +268,7 @@ func TestSmallestPassingSize(t *testing.T) {
 				t.Fatalf("SmallestPassingSize found none, want %s", tt.want)
 			}
 			if s.String() != tt.want {
-				t.Errorf("SmallestPassingSize = %s, want %s (drop %.2f %%, %.4g A allowed)", s, tt.want, m.dropPct, m.amp.derated)
+				t.Errorf("SmallestPassingSize = %s, want %s (drop %.2f %%, %.4g A allowed)", s, tt.want, m.drop.Pct, m.amp.Derated)
 			}
 			if _, pass := passesWiring(in, r, s); !pass {
 				t.Errorf("%s does not pass the wiring checks it was chosen by", s)
@@ -328,7 +282,7 @@ func TestSmallestPassingSize(t *testing.T) {
 			}
 			for _, x := range below {
 				if m, pass := passesWiring(in, r, x); pass {
-					t.Errorf("%s, smaller than the suggested %s, passes too (drop %.2f %%, %.4g A allowed)", x, s, m.dropPct, m.amp.derated)
+					t.Errorf("%s, smaller than the suggested %s, passes too (drop %.2f %%, %.4g A allowed)", x, s, m.drop.Pct, m.amp.Derated)
 				}
 			}
 			if s.String() != tt.run.size && len(below) == 0 {
@@ -368,7 +322,6 @@ func TestSmallestPassingSize(t *testing.T) {
 // Interrupting ratings are illustrative catalog values: a blade fuse
 // 1000 A, a class T fuse 20,000 A.
 func TestInterruptingLiFePO4(t *testing.T) {
-	rules := defaultRulebook(t)
 	volt := func(q unit.Quantity) unit.Voltage { return unit.Voltage{Quantity: q} }
 	ohm := func(q unit.Quantity) unit.Resistance { return unit.Resistance{Quantity: q} }
 	blade := &schema.Protection{Part: schema.Part{ID: "blade30"}, Kind: "fuse", Rating: currentOf(t, "30 A"), Interrupting: currentOf(t, "1000 A")}
@@ -388,40 +341,33 @@ func TestInterruptingLiFePO4(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			feed := &Run{
-				Name: "bank-bus", Path: `wiring."bank-bus"`, Up: "bank", Down: "bus", Role: Supply,
-				Spec: &schema.Conductor{From: "bank", To: "bus", Length: lengthOf(t, "1 m"), Size: sizeOf(t, "2/0 AWG"), Material: "tinned-copper", Insulation: tempOf(t, "105 °C"), Bundle: 1},
-			}
-			branch := &Run{
-				Name: "bus-load", Path: `wiring."bus-load"`, Up: "bus", Down: "load", Role: Supply, Parent: feed,
-				Spec: &schema.Conductor{From: "bus", To: "load", Length: lengthOf(t, "2 m"), Size: sizeOf(t, "10 AWG"), Material: "tinned-copper", Insulation: tempOf(t, "105 °C"), Bundle: 1},
-			}
-			subject := branch
+			d := testDesign(t, "12 V")
+			d.Bank = &schema.Bank{Series: 1, Parallel: 4, Role: "house", EndOfLife: 1, Temperature: tempOf(t, "25 °C"), Battery: schema.Battery{
+				Chemistry:  "lifepo4",
+				Voltage:    mustQ(t, "12.8 V", unit.DimVoltage, volt),
+				Capacity:   mustQ(t, "100 Ah", unit.DimCharge, func(q unit.Quantity) unit.Charge { return unit.Charge{Quantity: q} }),
+				Resistance: mustQ(t, "2 mΩ", unit.DimResistance, ohm),
+			}}
+			d.Buses = map[string]schema.Bus{"bus": {Kind: "busbar"}}
+			d.Loads["load"] = schema.Load{Circuit: "bus-load", Kind: "general", Current: ptr(currentOf(t, "5 A")), Duty: 1, Quantity: 1}
+			feed := conductor(t, "bank", "bus", "2/0 AWG", "1 m")
+			branch := conductor(t, "bus", "load", "10 AWG", "2 m")
+			subject := "bus-load"
 			if tt.atBank {
-				subject = feed
+				feed.Protection, subject = tt.device, "bank-bus"
+			} else {
+				branch.Protection = tt.device
 			}
-			subject.Spec.Protection = tt.device
-			in := &Input{
-				Design: &schema.Design{
-					Vessel: schema.Vessel{System: "12 V"},
-					Bank: schema.Bank{Series: 1, Parallel: 4, Battery: schema.Battery{
-						Chemistry:  "lifepo4",
-						Voltage:    mustQ(t, "12.8 V", unit.DimVoltage, volt),
-						Resistance: mustQ(t, "2 mΩ", unit.DimResistance, ohm),
-					}},
-				},
-				Rules:    rules,
-				Position: func(string) string { return "" },
-				Network:  &Network{Runs: []*Run{feed, branch}},
-			}
+			d.Wiring["bank-bus"], d.Wiring["bus-load"] = feed, branch
+			in := build(t, d)
 			var rep Report
 			Interrupting.Run(in, &rep)
 			if len(rep.Findings) != 1 || len(rep.Figures) != 1 {
-				t.Fatalf("%d findings and %d figures, want one of each (only %s has a device)", len(rep.Findings), len(rep.Figures), subject.Name)
+				t.Fatalf("%d findings and %d figures, want one of each (only %s has a device)", len(rep.Findings), len(rep.Figures), subject)
 			}
 			fig, f := rep.Figures[0], rep.Findings[0]
-			if f.Subject != subject.Name {
-				t.Fatalf("finding on %q, want %q", f.Subject, subject.Name)
+			if f.Subject != subject {
+				t.Fatalf("finding on %q, want %q", f.Subject, subject)
 			}
 			if math.Abs(fig.Value-tt.fault) > 0.5 {
 				t.Errorf("fault current = %.1f A, want %.1f A (%s)", fig.Value, tt.fault, f.Message)

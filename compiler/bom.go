@@ -6,13 +6,16 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/ampwright/ampwright/model"
 	"github.com/ampwright/ampwright/result"
 	"github.com/ampwright/ampwright/schema"
+	"github.com/ampwright/ampwright/schema/unit"
 )
 
 // The categories of the bill of materials, in the order it lists them.
 var bomCategories = []string{
 	"solar modules", "batteries", "charge controllers", "inverters",
+	"chargers", "links", "converters", "shunts",
 	"protection", "fuse holders", "busbars and panels", "cable", "terminals",
 }
 
@@ -43,29 +46,54 @@ func (b *bomBuilder) add(category string, p schema.Part, description string, qty
 // each run plus the rulebook's slack, rounded up to the sale unit), and
 // crimp terminals (four a run). A line without a price leaves the total
 // incomplete rather than wrong.
-func billOfMaterials(d *Design) *result.BOM {
+func billOfMaterials(d *Design, sys *model.System) *result.BOM {
 	s := d.Spec
 	b := &bomBuilder{lines: map[string]*result.BOMLine{}, uses: map[string][]string{}}
-	for _, n := range schema.Names(s.Arrays) {
-		a := s.Arrays[n]
-		b.add("solar modules", a.Module.Part, partText(a.Module.Part, a.Module.Pmax.Text+" module"), float64(a.Series*a.Strings), n)
-		if f := a.StringFuse; f != nil {
-			b.add("protection", f.Part, partText(f.Part, f.Rating.Text+" string "+f.Kind), float64(a.Strings), n+" strings")
+	for _, a := range sys.Arrays {
+		n, spec := a.Name, a.Spec
+		b.add("solar modules", spec.Module.Part, partText(spec.Module.Part, spec.Module.Pmax.Text+" module"), float64(spec.Series*spec.Strings), n)
+		if f := spec.StringFuse; f != nil {
+			b.add("protection", f.Part, partText(f.Part, f.Rating.Text+" string "+f.Kind), float64(spec.Strings), n+" strings")
 		}
 	}
-	bt := s.Bank.Battery
-	b.add("batteries", bt.Part, partText(bt.Part, fmt.Sprintf("%s %s %s battery", bt.Voltage.Text, bt.Capacity.Text, bt.Chemistry)), float64(s.Bank.Series*s.Bank.Parallel), "bank")
-	for _, n := range schema.Names(s.Controllers) {
-		c := s.Controllers[n].Part
-		b.add("charge controllers", c.Part, partText(c.Part, fmt.Sprintf("%s controller, %s", strings.ToUpper(c.Kind), c.Output.Text)), 1, n)
+	for _, bk := range sys.Banks {
+		bt := bk.Spec.Battery
+		b.add("batteries", bt.Part, partText(bt.Part, fmt.Sprintf("%s %s %s battery", bt.Voltage.Text, bt.Capacity.Text, bt.Chemistry)), float64(bk.Spec.Series*bk.Spec.Parallel), bk.Name)
 	}
-	for _, n := range schema.Names(s.Inverters) {
-		p := s.Inverters[n].Part
-		b.add("inverters", p.Part, partText(p.Part, p.Continuous.Text+" inverter"), 1, n)
+	for _, c := range sys.Controllers {
+		p := c.Spec.Part
+		b.add("charge controllers", p.Part, partText(p.Part, fmt.Sprintf("%s controller, %s", strings.ToUpper(p.Kind), p.Output.Text)), 1, c.Name)
 	}
-	for _, n := range schema.Names(s.Buses) {
-		if p := s.Buses[n].Part; p != nil {
-			b.add("busbars and panels", p.Part, partText(p.Part, s.Buses[n].Kind), 1, n)
+	for _, inv := range sys.Inverters {
+		p := inv.Spec.Part
+		b.add("inverters", p.Part, partText(p.Part, p.Continuous.Text+" inverter"), 1, inv.Name)
+	}
+	for _, src := range sys.Sources {
+		if src.Charger != nil && src.Charger.Part != nil {
+			p := src.Charger.Part
+			b.add("chargers", p.Part, partText(p.Part, fmt.Sprintf("%s %s", p.Output.Text, p.Kind)), 1, src.Name)
+		}
+	}
+	for _, l := range sys.Links {
+		p := l.Spec.Part
+		b.add("links", p.Part, partText(p.Part, fmt.Sprintf("%s %s", p.Rating.Text, p.Kind)), 1, l.Name)
+	}
+	for _, c := range sys.Converters {
+		p := c.Spec.Part
+		b.add("converters", p.Part, partText(p.Part, fmt.Sprintf("%s converter, %s", p.Output, p.Rating.Text)), 1, c.Name)
+	}
+	for _, sh := range sys.Shunts {
+		p := sh.Spec.Part
+		b.add("shunts", p.Part, partText(p.Part, p.Rating.Text+" shunt"), 1, sh.Name)
+	}
+	for _, bus := range sys.Buses {
+		if p := bus.Spec.Part; p != nil {
+			b.add("busbars and panels", p.Part, partText(p.Part, bus.Spec.Kind), 1, bus.Name)
+		}
+	}
+	for _, nb := range sys.NegativeBuses {
+		if p := nb.Spec.Part; p != nil {
+			b.add("busbars and panels", p.Part, partText(p.Part, "negative bus"), 1, nb.Name)
 		}
 	}
 	slack := 0.0
@@ -75,38 +103,52 @@ func billOfMaterials(d *Design) *result.BOM {
 	}
 	cables := map[string]*result.BOMLine{}
 	cableParts := map[string]*schema.Cable{}
-	for _, n := range schema.Names(s.Wiring) {
-		c := s.Wiring[n]
+	// A run's conductors: the run and its own return, of the run's cable
+	// (its return cable where the catalog gives one) when of the run's size,
+	// else a cable of the return's size; a negative conductor alone.
+	type conductor struct {
+		cab    *schema.Cable
+		size   unit.Size
+		length float64
+	}
+	for _, run := range append(sys.Runs[:len(sys.Runs):len(sys.Runs)], sys.Returns...) {
+		n, c := run.Name, run.Spec
 		if p := c.Protection; p != nil {
 			b.add("protection", p.Part, partText(p.Part, fmt.Sprintf("%s %s", p.Rating.Text, p.Kind)), 1, n)
 			if h := p.Holder; h != nil {
 				b.add("fuse holders", *h, partText(*h, "fuse holder"), 1, n)
 			}
 		}
-		one := c.Length.Metres() * (1 + slack)
-		conductors := []*schema.Cable{c.Cable, c.Cable}
-		if c.Cable != nil && c.Cable.ReturnCable != nil {
-			conductors[1] = c.Cable.ReturnCable
+		conductors := []conductor{{c.Cable, c.Size, c.Length.Metres()}}
+		if run.Role != model.Return && run.Ret.Own {
+			ret := conductor{c.Cable, run.Ret.Size, run.Ret.Length}
+			if c.Cable != nil && c.Cable.ReturnCable != nil {
+				ret.cab = c.Cable.ReturnCable
+			}
+			if !sameSize(ret.size, c.Size) {
+				ret.cab = nil
+			}
+			conductors = append(conductors, ret)
 		}
-		for _, cab := range conductors {
+		for _, cd := range conductors {
 			var l *result.BOMLine
-			if cab == nil {
-				key := "unlisted " + c.Size.Text
-				l = b.add("cable", schema.Part{ID: key}, fmt.Sprintf("%s cable, %s insulation (not from the catalog)", c.Size.Text, c.Insulation.Text), 0, n)
+			if cd.cab == nil {
+				key := "unlisted " + cd.size.Text
+				l = b.add("cable", schema.Part{ID: key}, fmt.Sprintf("%s cable, %s insulation (not from the catalog)", cd.size.Text, c.Insulation.Text), 0, n)
 				l.Unit = "m"
 			} else {
-				l = b.add("cable", cab.Part, partText(cab.Part, fmt.Sprintf("%s %s cable, %s", cab.Size.Text, cab.Colour, cab.Insulation.Text)), 0, n)
-				cableParts[cab.ID] = cab
+				l = b.add("cable", cd.cab.Part, partText(cd.cab.Part, fmt.Sprintf("%s %s cable, %s", cd.cab.Size.Text, cd.cab.Colour, cd.cab.Insulation.Text)), 0, n)
+				cableParts[cd.cab.ID] = cd.cab
 			}
-			l.Length += one
+			l.Length += cd.length * (1 + slack)
 			cables[l.Part] = l
 		}
-		for _, cab := range conductors {
-			if cab != nil && cab.Terminal != nil {
-				t := cab.Terminal
+		for _, cd := range conductors {
+			if cd.cab != nil && cd.cab.Terminal != nil {
+				t := cd.cab.Terminal
 				b.add("terminals", t.Part, partText(t.Part, fmt.Sprintf("ring terminal, %s, %s stud", t.Size.Text, orText(t.Stud, "any"))), 2, n)
 			} else {
-				b.add("terminals", schema.Part{ID: "ring " + c.Size.Text}, fmt.Sprintf("ring terminal, %s (not from the catalog)", c.Size.Text), 2, n)
+				b.add("terminals", schema.Part{ID: "ring " + cd.size.Text}, fmt.Sprintf("ring terminal, %s (not from the catalog)", cd.size.Text), 2, n)
 			}
 		}
 	}
@@ -149,6 +191,11 @@ func billOfMaterials(d *Design) *result.BOM {
 		return a.Part < b.Part
 	})
 	return out
+}
+
+// sameSize reports whether two conductor sizes are the same.
+func sameSize(a, b unit.Size) bool {
+	return math.Abs(a.MM2()-b.MM2()) <= 1e-9*math.Max(1, b.MM2())
 }
 
 func partText(p schema.Part, fallback string) string {

@@ -8,6 +8,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/ampwright/ampwright/model"
 	"github.com/ampwright/ampwright/report"
 	"github.com/ampwright/ampwright/result"
 )
@@ -72,13 +73,20 @@ func TestBOMIncomplete(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	full := billOfMaterials(d)
+	bom := func() *result.BOM {
+		sys, issues := model.Build(d.Spec, d.Rules)
+		if issues != nil {
+			t.Fatal(issues)
+		}
+		return billOfMaterials(d, sys)
+	}
+	full := bom()
 	spec := *d.Spec
-	bank := spec.Bank
+	bank := *spec.Bank
 	bank.Battery.Price = nil
-	spec.Bank = bank
+	spec.Bank = &bank
 	d.Spec = &spec
-	b := billOfMaterials(d)
+	b := bom()
 	if b.Complete {
 		t.Error("a battery without a price: total marked complete")
 	}

@@ -28,7 +28,8 @@ import (
 	"cuelang.org/go/cue/cuecontext"
 	"cuelang.org/go/cue/token"
 
-	"github.com/ampwright/ampwright/checks"
+	"github.com/ampwright/ampwright/energy"
+	"github.com/ampwright/ampwright/model"
 	"github.com/ampwright/ampwright/schema"
 )
 
@@ -47,6 +48,8 @@ type Design struct {
 	// Rules is the rulebook in force: the default, with the design's
 	// tables over it.
 	Rules schema.Rulebook
+	// Sys is the system model, once compiled.
+	Sys *model.System
 	// pos holds the design's position of every named entry, by CUE path.
 	pos map[string]token.Pos
 	// value is the design unified with the schema.
@@ -54,9 +57,26 @@ type Design struct {
 }
 
 // Position returns the design's file:line:col for a CUE path such as
-// wiring."bank-main", or "" when it has none.
+// wiring."bank-main", or of the nearest entry that holds it, or "" when
+// there is none.
 func (d *Design) Position(path string) string {
-	return posString(d.pos[path])
+	return posString(d.posOf(path))
+}
+
+// posOf is the position of the entry at path, or of the nearest entry
+// that holds it.
+func (d *Design) posOf(path string) token.Pos {
+	p := cue.ParsePath(path)
+	if p.Err() != nil {
+		return d.pos[path]
+	}
+	sels := p.Selectors()
+	for n := len(sels); n > 0; n-- {
+		if pos, ok := d.pos[cue.MakePath(sels[:n]...).String()]; ok {
+			return pos
+		}
+	}
+	return token.NoPos
 }
 
 // Load reads, validates and decodes the hull design in dir. Input errors
@@ -159,13 +179,20 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 // entryPositions records where the design declares each named entry.
 func entryPositions(c *validator) map[string]token.Pos {
 	out := map[string]token.Pos{}
-	for _, group := range []string{"scenarios", "loads", "inverters", "arrays", "controllers", "chargers", "buses", "wiring"} {
+	for _, group := range []string{"scenarios", "loads", "inverters", "arrays", "controllers", "chargers", "buses", "wiring", "banks", "links", "converters"} {
 		for _, name := range c.keys(group) {
 			p := cue.MakePath(cue.Str(group), cue.Str(name))
 			out[p.String()] = c.entryPos(p)
 		}
 	}
-	for _, top := range []string{"vessel", "site", "bank", "voyage", "autonomy"} {
+	for _, group := range []string{"buses", "shunts", "wiring"} {
+		base := cue.MakePath(cue.Str("negative"), cue.Str(group))
+		for _, name := range c.keysAt(base) {
+			p := appendPath(base, name)
+			out[p.String()] = c.entryPos(p)
+		}
+	}
+	for _, top := range []string{"vessel", "site", "bank", "voyage", "autonomy", "negative"} {
 		p := cue.MakePath(cue.Str(top))
 		out[p.String()] = c.dataPos(p)
 	}
@@ -178,7 +205,7 @@ func irradiationBounds(v *validator, s *schema.Design) ErrorList {
 	var errs ErrorList
 	for _, m := range schema.Names(s.Site.Irradiation.Monthly) {
 		mi := -1
-		for i, x := range checks.Months {
+		for i, x := range energy.Months {
 			if x == m {
 				mi = i
 			}
@@ -187,7 +214,7 @@ func irradiationBounds(v *validator, s *schema.Design) ErrorList {
 			continue
 		}
 		h := s.Site.Irradiation.Monthly[m]
-		bound := checks.ClearSkyBound(s.Site.Latitude, s.Site.Longitude, mi)
+		bound := energy.ClearSkyBound(s.Site.Latitude, s.Site.Longitude, mi)
 		if h.KWhPerM2Day() > bound {
 			p := cue.MakePath(cue.Str("site"), cue.Str("irradiation"), cue.Str(m))
 			errs.Add(v.dataPos(p), p.String(), "%q is more than a clear sky gives at latitude %g in %s (%.2f kWh/m²/day, Haurwitz model on the month's average day); check the data source %q",
@@ -208,7 +235,7 @@ func moduleEfficiency(v *validator, s *schema.Design) ErrorList {
 	var errs ErrorList
 	for _, name := range schema.Names(s.Arrays) {
 		m := s.Arrays[name].Module
-		eff := checks.ModuleEfficiency(m)
+		eff := energy.ModuleEfficiency(m)
 		if eff < minEfficiency || eff > maxEfficiency {
 			p := cue.MakePath(cue.Str("arrays"), cue.Str(name), cue.Str("module"), cue.Str("pmax"))
 			errs.Add(v.dataPos(p), p.String(), "%s over %s × %s is %.1f %% efficient at STC; expected %g–%g %%: check the module's power and dimensions",

@@ -65,9 +65,8 @@ func (c *validator) crossCheck() {
 
 	// Nodes of the wiring: the bank and every named thing a conductor can
 	// end at. A name used in two places would make a conductor ambiguous.
-	nodes := []string{"bank"}
-	owner := map[string]string{"bank": "bank"}
-	for _, group := range []string{"buses", "arrays", "controllers", "chargers", "inverters", "loads"} {
+	nodes, owner := c.banks()
+	for _, group := range []string{"buses", "arrays", "controllers", "chargers", "inverters", "links", "converters", "loads"} {
 		for _, n := range c.keys(group) {
 			if first, dup := owner[n]; dup {
 				p := cue.MakePath(cue.Str(group), cue.Str(n))
@@ -80,8 +79,8 @@ func (c *validator) crossCheck() {
 	}
 	for _, name := range wiring {
 		base := cue.MakePath(cue.Str("wiring"), cue.Str(name))
-		c.refNoun(base, "from", "node", "bank, a bus, array, controller, charger, inverter or load", nodes)
-		c.refNoun(base, "to", "node", "bank, a bus, array, controller, charger, inverter or load", nodes)
+		c.refNoun(base, "from", "node", "a bank, bus, array, controller, charger, inverter, link, converter or load", nodes)
+		c.refNoun(base, "to", "node", "a bank, bus, array, controller, charger, inverter, link, converter or load", nodes)
 		c.cableAgrees(base)
 		from, _ := c.root.LookupPath(appendPath(base, "from")).String()
 		to, _ := c.root.LookupPath(appendPath(base, "to")).String()
@@ -97,9 +96,69 @@ func (c *validator) crossCheck() {
 			}
 		}
 	}
-	for _, group := range []string{"scenarios", "loads", "wiring", "buses", "arrays", "controllers", "chargers", "inverters"} {
+	for _, group := range []string{"scenarios", "loads", "wiring", "buses", "arrays", "controllers", "chargers", "inverters", "banks", "links", "converters"} {
 		c.similarNames(group)
 	}
+	c.systemRefs(scenarios)
+}
+
+// banks checks that the design gives bank or banks, not both, and returns
+// the wiring's bank nodes with their owners.
+func (c *validator) banks() ([]string, map[string]string) {
+	one := c.root.LookupPath(cue.ParsePath("bank")).Exists()
+	several := c.keys("banks")
+	owner := map[string]string{}
+	var nodes []string
+	switch {
+	case one && len(several) > 0:
+		p := cue.ParsePath("banks")
+		c.errs.Add(c.dataPos(p), p.String(), "the design gives both bank and banks: give bank for a boat with one bank, banks for a boat with several")
+	case !one && len(several) == 0:
+		p := cue.ParsePath("bank")
+		c.errs.Add(c.dataPos(cue.Path{}), p.String(), "missing required field \"bank\": the house battery bank (or banks, for a boat with several)")
+	}
+	if one || len(several) == 0 {
+		// Without any bank, "bank" still names one, so that the missing
+		// bank is the error and not every run from it.
+		nodes, owner["bank"] = append(nodes, "bank"), "bank"
+	}
+	for _, n := range several {
+		nodes, owner[n] = append(nodes, n), "banks"
+	}
+	return nodes, owner
+}
+
+// systemRefs resolves the names the parts of the system model use: a
+// link's banks, a charger's and an inverter-charger's scenarios, a bus's
+// negative bus.
+func (c *validator) systemRefs(scenarios []string) {
+	banks, _ := c.bankNames()
+	for _, name := range c.keys("links") {
+		base := cue.MakePath(cue.Str("links"), cue.Str(name))
+		c.refNoun(base, "from", "bank", "a bank in banks", banks)
+		c.refNoun(base, "to", "bank", "a bank in banks", banks)
+	}
+	for _, name := range c.keys("inverters") {
+		hours := cue.MakePath(cue.Str("inverters"), cue.Str(name), cue.Str("charging"), cue.Str("hours"))
+		for _, s := range c.keysAt(hours) {
+			if !contains(scenarios, s) {
+				p := appendPath(hours, s)
+				c.errs.Add(c.dataPos(p), p.String(), "unknown scenario %q%s", s, suggest(s, scenarios))
+			}
+		}
+	}
+	negBuses := c.keysAt(cue.ParsePath("negative.buses"))
+	for _, name := range c.keys("buses") {
+		c.refNoun(cue.MakePath(cue.Str("buses"), cue.Str(name)), "negative", "negative bus", "a bus in negative.buses", negBuses)
+	}
+}
+
+// bankNames are the names a bank goes by in the wiring.
+func (c *validator) bankNames() ([]string, bool) {
+	if c.root.LookupPath(cue.ParsePath("bank")).Exists() {
+		return []string{"bank"}, true
+	}
+	return c.keys("banks"), false
 }
 
 // months checks the months in use: no month twice, and irradiation given

@@ -167,7 +167,7 @@ func TestBrackenwellWindlass(t *testing.T) {
 	if len(fails) != 1 || fails[0].ID != "wiring.voltageDrop" {
 		var ids []string
 		for _, f := range fails {
-			ids = append(ids, f.ID)
+			ids = append(ids, string(f.ID))
 		}
 		t.Fatalf("windlass-run fails %q, want only wiring.voltageDrop", ids)
 	}

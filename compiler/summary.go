@@ -2,11 +2,11 @@ package compiler
 
 import (
 	"math"
-	"strings"
 
 	"github.com/ampwright/ampwright/checks"
+	"github.com/ampwright/ampwright/energy"
+	"github.com/ampwright/ampwright/model"
 	"github.com/ampwright/ampwright/result"
-	"github.com/ampwright/ampwright/schema"
 )
 
 // Compile loads the design in dir and runs every check over it. Input
@@ -34,25 +34,38 @@ func compile(dir string, src *Source) (*result.Result, *Design, error) {
 	if err != nil {
 		return nil, nil, err
 	}
-	net, errs := buildNetwork(d)
-	if len(errs) > 0 {
-		return nil, nil, errs
+	sys, issues := model.Build(d.Spec, d.Rules)
+	if len(issues) > 0 {
+		return nil, nil, d.modelErrors(issues)
 	}
+	d.Sys = sys
+	a := energy.Analyze(sys)
 	r := d.Result()
-	in := &checks.Input{Design: d.Spec, Rules: d.Rules, Position: d.Position, Network: net}
-	var figures []result.Figure
-	r.Checks, figures = checks.RunAll(checks.All, in)
-	r.Figures = append(r.Figures, figures...)
-	r.Wiring = wiringTable(net, r)
-	r.Budget = budgetTable(in.Budget())
-	r.Harvest = in.HarvestResult()
-	r.Voyage = in.VoyageResult()
-	r.BOM = billOfMaterials(d)
+	in := checks.NewInput(sys, a, d.Position)
+	r.Checks, r.Figures = checks.RunAll(checks.All, in)
+	r.Wiring = wiringTable(sys, r)
+	r.Budget = budgetTable(a.Budget)
+	r.Harvest = harvestTable(a.Harvest)
+	if a.Voyage != nil {
+		r.Voyage = a.Voyage.Result(d.Spec.Voyage.Start)
+	}
+	r.BOM = billOfMaterials(d, sys)
+	r.System = systemTable(sys)
 	return r, d, nil
 }
 
-// Result returns the result skeleton of d: identity, rulebook, summary
-// and the figures that describe what it declares.
+// modelErrors positions the model's issues at the design's entries.
+func (d *Design) modelErrors(issues []model.Issue) ErrorList {
+	var errs ErrorList
+	for _, is := range issues {
+		errs = append(errs, &Error{Pos: d.posOf(is.Path), Path: is.Path, Msg: is.Msg})
+	}
+	errs.Sort()
+	return errs
+}
+
+// Result returns the result skeleton of d: identity, rulebook and the
+// summary of what it declares, read from its system model.
 func (d *Design) Result() *result.Result {
 	s := d.Spec
 	r := &result.Result{
@@ -76,137 +89,97 @@ func (d *Design) Result() *result.Result {
 		Figures:  []result.Figure{},
 		Checks:   []result.Finding{},
 	}
-	for _, name := range schema.Names(s.Loads) {
-		l := s.Loads[name]
+	sys := d.Sys
+	for _, l := range sys.Loads {
+		spec := l.Spec
 		draw := ""
 		switch {
-		case l.Current != nil:
-			draw = l.Current.Text
-		case l.Power != nil:
-			draw = l.Power.Text
+		case spec.Current != nil:
+			draw = spec.Current.Text
+		case spec.Power != nil:
+			draw = spec.Power.Text
 		}
-		r.Summary.Loads = append(r.Summary.Loads, result.LoadLine{
-			Name: name, Circuit: l.Circuit, Kind: l.Kind, Draw: draw, Duty: l.Duty, Inverter: l.Inverter,
-		})
+		line := result.LoadLine{
+			Name: l.Name, Circuit: spec.Circuit, Kind: spec.Kind, Draw: draw, Duty: spec.Duty, Inverter: spec.Inverter,
+			Quantity: max(spec.Quantity, 1),
+		}
+		if sys.MultiBank() && l.Bank != nil {
+			line.Bank = l.Bank.Name
+		}
+		r.Summary.Loads = append(r.Summary.Loads, line)
 	}
-	b := s.Bank
-	r.Summary.Bank = result.BankLine{Battery: b.Battery.ID, Chemistry: b.Battery.Chemistry, Series: b.Series, Parallel: b.Parallel}
-	for _, name := range schema.Names(s.Arrays) {
-		a := s.Arrays[name]
-		kind := ""
-		if c, ok := s.Controllers[a.Controller]; ok {
-			kind = c.Part.Kind
+	for _, b := range sys.Banks {
+		line := result.BankLine{Battery: b.Spec.Battery.ID, Chemistry: b.Spec.Battery.Chemistry, Series: b.Spec.Series, Parallel: b.Spec.Parallel}
+		if sys.MultiBank() {
+			line.Name, line.Role, line.System = b.Name, b.Role, b.System
 		}
+		r.Summary.Banks = append(r.Summary.Banks, line)
+		if b == sys.Primary() {
+			r.Summary.Bank = line
+		}
+	}
+	for _, a := range sys.Arrays {
 		r.Summary.Arrays = append(r.Summary.Arrays, result.ArrayLine{
-			Name: name, Module: a.Module.ID, Series: a.Series, Strings: a.Strings, Controller: a.Controller, ControllerKind: kind,
+			Name: a.Name, Module: a.Spec.Module.ID, Series: a.Spec.Series, Strings: a.Spec.Strings,
+			Controller: a.Spec.Controller, ControllerKind: a.Controller.Spec.Part.Kind,
 		})
 	}
-	for _, name := range schema.Names(s.Wiring) {
-		c := s.Wiring[name]
-		line := result.CircuitLine{Name: name, From: c.From, To: c.To, Length: c.Length.Text, Size: c.Size.Text}
+	for _, run := range sys.Runs {
+		c := run.Spec
+		line := result.CircuitLine{Name: run.Name, From: c.From, To: c.To, Length: c.Length.Text, Size: c.Size.Text}
 		if c.Protection != nil {
 			line.Protection = c.Protection.ID
 		}
 		r.Summary.Circuits = append(r.Summary.Circuits, line)
 	}
-	r.Figures = append(r.Figures, bankFigures(d)...)
-	r.Figures = append(r.Figures, arrayFigures(d)...)
 	return r
 }
 
-const defined = "definition"
+func round3(x float64) float64 { return math.Round(x*1000) / 1000 }
 
-func bankFigures(d *Design) []result.Figure {
-	b := d.Spec.Bank
-	v := b.Battery.Voltage.Volts()
-	ah := b.Battery.Capacity.Ah()
-	ns, np := float64(b.Series), float64(b.Parallel)
-	return []result.Figure{
-		{
-			ID: "bank.nominalVoltage", Subject: "bank", Value: ns * v, Unit: "V",
-			Formula: "V_bank = N_series × V_battery",
-			Inputs: []result.Input{
-				{Name: "N_series", Value: ns, From: "bank.series"},
-				{Name: "V_battery", Value: v, Unit: "V", From: "bank.battery.voltage"},
-			},
-			Source: defined,
-		},
-		{
-			ID: "bank.capacity", Subject: "bank", Value: np * ah, Unit: "Ah",
-			Formula: "C_bank = N_parallel × C_battery",
-			Inputs: []result.Input{
-				{Name: "N_parallel", Value: np, From: "bank.parallel"},
-				{Name: "C_battery", Value: ah, Unit: "Ah", From: "bank.battery.capacity"},
-			},
-			Source: defined,
-		},
-		{
-			ID: "bank.nominalEnergy", Subject: "bank", Value: ns * v * np * ah, Unit: "Wh",
-			Formula: "E_bank = N_series × V_battery × N_parallel × C_battery",
-			Inputs: []result.Input{
-				{Name: "N_series", Value: ns, From: "bank.series"},
-				{Name: "V_battery", Value: v, Unit: "V", From: "bank.battery.voltage"},
-				{Name: "N_parallel", Value: np, From: "bank.parallel"},
-				{Name: "C_battery", Value: ah, Unit: "Ah", From: "bank.battery.capacity"},
-			},
-			Source: defined,
-		},
-	}
-}
-
-func arrayFigures(d *Design) []result.Figure {
-	var out []result.Figure
-	for _, name := range schema.Names(d.Spec.Arrays) {
-		a := d.Spec.Arrays[name]
-		p := a.Module.Pmax.Watts()
-		ns, np := float64(a.Series), float64(a.Strings)
-		path := "arrays." + quoteLabel(name)
-		out = append(out, result.Figure{
-			ID: "array.stcPower", Subject: name, Value: ns * np * p, Unit: "W",
-			Formula: "P_STC = N_series × N_strings × Pmax",
-			Inputs: []result.Input{
-				{Name: "N_series", Value: ns, From: path + ".series"},
-				{Name: "N_strings", Value: np, From: path + ".strings"},
-				{Name: "Pmax", Value: p, Unit: "W", From: path + ".module.pmax"},
-			},
-			Source: "module datasheet at STC (1000 W/m², 25 °C cell temperature)",
-		})
-	}
-	return out
-}
-
-// wiringTable is one line per run with the figures of the wiring checks
-// and the worst status of its wiring and protection findings.
-func wiringTable(net *checks.Network, r *result.Result) []result.WiringLine {
-	fig := map[[2]string]float64{}
-	for _, f := range r.Figures {
-		fig[[2]string{f.ID, f.Subject}] = f.Value
-	}
+// wiringTable is one line per run, the negative conductors after the
+// positive runs, with the figures of the wiring checks, computed from the
+// model as the checks computed them, and the worst status of the run's
+// wiring and protection findings.
+func wiringTable(sys *model.System, r *result.Result) []result.WiringLine {
 	status := map[string]result.Status{}
-	limit := map[string]float64{}
 	for _, f := range r.Checks {
-		if !strings.HasPrefix(f.ID, "wiring.") && !strings.HasPrefix(f.ID, "protection.") {
+		if a := f.ID.Area(); a != "wiring" && a != "protection" {
 			continue
 		}
 		if s, ok := status[f.Subject]; !ok || f.Status.Rank() < s.Rank() {
 			status[f.Subject] = f.Status
 		}
-		if f.ID == "wiring.voltageDrop" {
-			limit[f.Subject] = f.Limit
-		}
 	}
 	var out []result.WiringLine
-	for _, run := range net.Runs {
+	for _, run := range append(sys.Runs[:len(sys.Runs):len(sys.Runs)], sys.Returns...) {
 		line := result.WiringLine{
 			Name: run.Name, From: run.Spec.From, To: run.Spec.To, Role: string(run.Role),
 			Length: run.Spec.Length.Metres(), LengthText: run.Spec.Length.Text,
 			Size: run.Spec.Size.Text, Current: round3(run.Current), CurrentBasis: run.Basis,
-			Class: run.Class, Drop: fig[[2]string{"wiring.voltageDrop", run.Name}], DropLimit: limit[run.Name],
-			Ampacity: fig[[2]string{"wiring.ampacity", run.Name}],
-			Status:   status[run.Name],
+			Class:  run.Class,
+			Status: status[run.Name],
+		}
+		if run.DropCurrent > 0 {
+			line.Drop = roundTo(sys.RunDrop(run, run.Spec.Size).Pct, 3)
+			line.DropLimit = model.DropLimit(sys.Rules, run.Class)
+		}
+		if a := sys.RunAmpacity(run, run.Spec.Size); a.OK {
+			line.Ampacity = roundTo(a.Derated, 2)
 		}
 		if p := run.Spec.Protection; p != nil {
 			line.Protection = p.Rating.Text + " " + p.Kind
+		}
+		if run.Role != model.PV && run.Role != model.Return && !run.Ret.Mirror {
+			switch {
+			case run.Ret.Via != nil:
+				line.ReturnVia = run.Ret.Via.Name
+			default:
+				line.ReturnSize, line.ReturnLength = run.Ret.Size.Text, run.Ret.Length
+			}
+		}
+		if n, ok := sys.Landing(run); ok && run.Ret.Lands != nil {
+			line.ReturnTo = n.Name
 		}
 		if line.Status == "" {
 			line.Status = result.Pass
@@ -216,10 +189,13 @@ func wiringTable(net *checks.Network, r *result.Result) []result.WiringLine {
 	return out
 }
 
-func round3(x float64) float64 { return math.Round(x*1000) / 1000 }
+func roundTo(x float64, n int) float64 {
+	p := math.Pow(10, float64(n))
+	return math.Round(x*p) / p
+}
 
 // budgetTable is the energy budget of each scenario, for reports.
-func budgetTable(budget []checks.ScenarioEnergy) []result.ScenarioBudget {
+func budgetTable(budget []energy.ScenarioEnergy) []result.ScenarioBudget {
 	var out []result.ScenarioBudget
 	for _, se := range budget {
 		sb := result.ScenarioBudget{
@@ -235,6 +211,22 @@ func budgetTable(budget []checks.ScenarioEnergy) []result.ScenarioBudget {
 			sb.Loads = append(sb.Loads, result.LoadBudget{Name: l.Name, Wh: round3(l.Wh), Share: math.Round(share*10) / 10, Formula: l.Formula})
 		}
 		out = append(out, sb)
+	}
+	return out
+}
+
+// harvestTable is the harvest by array and month, for reports.
+func harvestTable(harvest []energy.ArrayHarvest) []result.ArrayHarvest {
+	var out []result.ArrayHarvest
+	for _, ah := range harvest {
+		ra := result.ArrayHarvest{Array: ah.Name, Controller: ah.Controller, Kind: ah.Kind, Alternative: checks.OtherKind(ah.Kind)}
+		for _, m := range ah.Months {
+			ra.Months = append(ra.Months, result.MonthHarvest{
+				Month: m.Month, Irradiation: m.H, POA: roundTo(m.POA, 3), Wh: roundTo(m.Wh, 1),
+				AltWh: roundTo(m.AltWh, 1), Clipped: roundTo(m.Clipped, 1), PeakCell: roundTo(m.PeakCell, 1),
+			})
+		}
+		out = append(out, ra)
 	}
 	return out
 }

@@ -75,7 +75,7 @@ func DiffMarkdown(w io.Writer, d *result.YardDelta) error {
 		if len(h.Findings) > 0 {
 			var rows [][]string
 			for _, f := range h.Findings {
-				rows = append(rows, []string{changeWord(f), md(f.ID), md(f.Subject), orNone(f.Old), orNone(f.New),
+				rows = append(rows, []string{changeWord(f), md(string(f.ID)), md(f.Subject), orNone(f.Old), orNone(f.New),
 					md(numUnit(f.Value, f.Unit)), md(numUnit(f.Limit, f.Unit)), md(f.Message)})
 			}
 			p.line("")
@@ -91,7 +91,7 @@ func DiffMarkdown(w io.Writer, d *result.YardDelta) error {
 		if len(h.Figures) > 0 {
 			var rows [][]string
 			for _, f := range h.Figures {
-				rows = append(rows, []string{md(f.ID), md(f.Subject), md(numUnit(f.Old, f.Unit)), md(numUnit(f.New, f.Unit)), md(deltaText(f))})
+				rows = append(rows, []string{md(string(f.ID)), md(f.Subject), md(numUnit(f.Old, f.Unit)), md(numUnit(f.New, f.Unit)), md(deltaText(f))})
 			}
 			p.mdDetails(fmt.Sprintf("%d figure(s) changed", len(h.Figures)), "| figure | subject | was | now | change |", "| --- | --- | ---: | ---: | ---: |", rows)
 		}

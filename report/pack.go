@@ -582,7 +582,7 @@ func (p *pack) lengthIn(m float64) string {
 }
 
 // figures returns the figures with the given ID.
-func (p *pack) figures(id string) []result.Figure {
+func (p *pack) figures(id result.FigureID) []result.Figure {
 	var out []result.Figure
 	for _, f := range p.r.Figures {
 		if f.ID == id {
@@ -593,7 +593,7 @@ func (p *pack) figures(id string) []result.Figure {
 }
 
 // figure returns the figure with the given ID and subject.
-func (p *pack) figure(id, subject string) (result.Figure, bool) {
+func (p *pack) figure(id result.FigureID, subject string) (result.Figure, bool) {
 	for _, f := range p.r.Figures {
 		if f.ID == id && f.Subject == subject {
 			return f, true
@@ -603,7 +603,7 @@ func (p *pack) figure(id, subject string) (result.Figure, bool) {
 }
 
 // finding returns the finding with the given ID and subject.
-func (p *pack) finding(id, subject string) (result.Finding, bool) {
+func (p *pack) finding(id result.CheckID, subject string) (result.Finding, bool) {
 	for _, f := range p.r.Checks {
 		if f.ID == id && f.Subject == subject {
 			return f, true

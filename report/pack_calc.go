@@ -89,12 +89,12 @@ func (p *pack) calcItems() ([]calcGroup, [][]calcItem) {
 		var list []calcItem
 		for i := range r.Figures {
 			f := &r.Figures[i]
-			if !g.has(f.ID) {
+			if !g.has(string(f.ID)) {
 				continue
 			}
-			it := calcItem{id: f.ID, subject: f.Subject, fig: f}
+			it := calcItem{id: string(f.ID), subject: f.Subject, fig: f}
 			for j, c := range r.Checks {
-				if !used[j] && c.ID == f.ID && c.Subject == f.Subject {
+				if !used[j] && string(c.ID) == string(f.ID) && c.Subject == f.Subject {
 					it.finds = append(it.finds, c)
 					used[j] = true
 				}
@@ -102,8 +102,8 @@ func (p *pack) calcItems() ([]calcGroup, [][]calcItem) {
 			list = append(list, it)
 		}
 		for j, c := range r.Checks {
-			if !used[j] && g.has(c.ID) {
-				list = append(list, calcItem{id: c.ID, subject: c.Subject, finds: []result.Finding{c}})
+			if !used[j] && g.has(string(c.ID)) {
+				list = append(list, calcItem{id: string(c.ID), subject: c.Subject, finds: []result.Finding{c}})
 				used[j] = true
 			}
 		}
@@ -140,7 +140,7 @@ func (p *pack) calcItems() ([]calcGroup, [][]calcItem) {
 func figureIDs(fs []result.Figure) []string {
 	var ids []string
 	for _, f := range fs {
-		ids = append(ids, f.ID)
+		ids = append(ids, string(f.ID))
 	}
 	return ids
 }
@@ -148,7 +148,7 @@ func figureIDs(fs []result.Figure) []string {
 func findingIDs(fs []result.Finding) []string {
 	var ids []string
 	for _, f := range fs {
-		ids = append(ids, f.ID)
+		ids = append(ids, string(f.ID))
 	}
 	return ids
 }

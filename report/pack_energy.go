@@ -3,6 +3,8 @@ package report
 import (
 	"fmt"
 	"strings"
+
+	"github.com/ampwright/ampwright/result"
 )
 
 // energy is the energy budget of each scenario and the battery bank.
@@ -28,15 +30,19 @@ func (p *pack) energy() {
 		d.y += 3
 	}
 
-	s := r.Summary.Bank
 	p.sub("Battery bank", 20)
-	bank := fmt.Sprintf("%d in series × %d in parallel of %s (%s).", s.Series, s.Parallel, orDash(s.Battery), orDash(s.Chemistry))
-	p.note(9, colInk, bank)
+	for _, s := range banksOf(r) {
+		bank := fmt.Sprintf("%d in series × %d in parallel of %s (%s).", s.Series, s.Parallel, orDash(s.Battery), orDash(s.Chemistry))
+		if s.Name != "" {
+			bank = fmt.Sprintf("%s (%s, %s): %s", s.Name, s.Role, s.System, bank)
+		}
+		p.note(9, colInk, bank)
+	}
 	d.y += 1
 	var rows []trow
 	for _, f := range r.Figures {
-		if strings.HasPrefix(f.ID, "bank.") {
-			rows = append(rows, cellsOf(strings.TrimPrefix(f.ID, "bank."), f.Subject, fnum(f.Value), f.Unit, f.Formula))
+		if f.ID.Area() == "bank" {
+			rows = append(rows, cellsOf(strings.TrimPrefix(string(f.ID), "bank."), f.Subject, fnum(f.Value), f.Unit, f.Formula))
 		}
 	}
 	if len(rows) > 0 {
@@ -53,14 +59,14 @@ func (p *pack) findingTable(title, prefix string, also ...string) {
 	d := p.d
 	var rows []trow
 	for _, f := range p.r.Checks {
-		match := strings.HasPrefix(f.ID, prefix)
+		match := strings.HasPrefix(string(f.ID), prefix)
 		for _, a := range also {
-			match = match || strings.HasPrefix(f.ID, a)
+			match = match || strings.HasPrefix(string(f.ID), a)
 		}
 		if !match {
 			continue
 		}
-		row := trow{cells: []cell{{s: f.ID}, {s: f.Subject}, {s: fnum(f.Value)}, {s: relation(f)}, {s: fnum(f.Limit)}, {s: f.Unit}, {s: fnum(f.Margin)}, statusCell(f.Status)}, fill: statusFill(f.Status)}
+		row := trow{cells: []cell{{s: string(f.ID)}, {s: f.Subject}, {s: fnum(f.Value)}, {s: relation(f)}, {s: fnum(f.Limit)}, {s: f.Unit}, {s: fnum(f.Margin)}, statusCell(f.Status)}, fill: statusFill(f.Status)}
 		rows = append(rows, row)
 	}
 	if len(rows) == 0 {
@@ -99,7 +105,7 @@ func (p *pack) solar() {
 	var rows []trow
 	for _, a := range r.Summary.Arrays {
 		stc := "-"
-		if f, ok := p.figure("array.stcPower", a.Name); ok {
+		if f, ok := p.figure(result.FigArraySTCPower, a.Name); ok {
 			stc = qty(f.Value, f.Unit)
 		}
 		rows = append(rows, cellsOf(a.Name, a.Module, fmt.Sprintf("%d × %d", a.Series, a.Strings), stc, a.Controller, strings.ToUpper(a.ControllerKind)))
@@ -111,16 +117,16 @@ func (p *pack) solar() {
 	// hot Vmp above what charging needs, input current within rating.
 	p.sub("String voltage window and controller input", 16)
 	rows = nil
-	what := map[string]string{
-		"pv.coldVoc":      "cold Voc ≤ controller maximum",
-		"pv.hotVmp":       "hot Vmp ≥ charging voltage + headroom",
-		"pv.inputCurrent": "1.25 × Isc × strings ≤ controller input",
-		"pv.stringFuse":   "(strings − 1) × Isc ≤ module series fuse",
+	what := map[result.CheckID]string{
+		result.CheckColdVoc:      "cold Voc ≤ controller maximum",
+		result.CheckHotVmp:       "hot Vmp ≥ charging voltage + headroom",
+		result.CheckInputCurrent: "1.25 × Isc × strings ≤ controller input",
+		result.CheckStringFuse:   "(strings − 1) × Isc ≤ module series fuse",
 	}
 	for _, a := range r.Summary.Arrays {
-		for _, id := range []string{"pv.coldVoc", "pv.hotVmp", "pv.inputCurrent", "pv.stringFuse"} {
+		for _, id := range []result.CheckID{result.CheckColdVoc, result.CheckHotVmp, result.CheckInputCurrent, result.CheckStringFuse} {
 			subject := a.Name
-			if id == "pv.inputCurrent" {
+			if id == result.CheckInputCurrent {
 				subject = a.Controller
 			}
 			f, ok := p.finding(id, subject)

@@ -40,10 +40,10 @@ func (p *pack) findings() {
 		if f.Status != result.Pass {
 			continue
 		}
-		g := byID[f.ID]
+		g := byID[string(f.ID)]
 		if g == nil {
-			g = &group{id: f.ID}
-			byID[f.ID] = g
+			g = &group{id: string(f.ID)}
+			byID[string(f.ID)] = g
 			groups = append(groups, g)
 		}
 		g.subjects = append(g.subjects, f.Subject)
@@ -114,7 +114,7 @@ func (p *pack) findingBox(f result.Finding) {
 	d.text(tx, top+5, tag)
 	tagW := d.textW(tag) + 3
 	d.textColor(colInk)
-	d.text(tx+tagW, top+5, d.fit(f.ID+" · "+f.Subject, tw-tagW))
+	d.text(tx+tagW, top+5, d.fit(string(f.ID)+" · "+f.Subject, tw-tagW))
 	d.y = top + 7
 	for _, l := range lines {
 		if d.y+lh > d.bottom() {

@@ -62,10 +62,10 @@ func (p *pack) cautions() {
 		uses[src][id] = true
 	}
 	for _, f := range r.Figures {
-		add(f.Source, f.ID)
+		add(f.Source, string(f.ID))
 	}
 	for _, f := range r.Checks {
-		add(f.Source, f.ID)
+		add(f.Source, string(f.ID))
 	}
 	d.y += 2
 	p.sub("Rulebook values to verify", 16)

@@ -167,11 +167,11 @@ func TestPackExamples(t *testing.T) {
 			c := r.Count()
 			for _, f := range r.Checks {
 				if f.Status == result.Fail {
-					want = append(want, f.ID+" · "+f.Subject, f.Change)
+					want = append(want, string(f.ID)+" · "+f.Subject, f.Change)
 				}
 			}
 			for _, f := range r.Figures {
-				want = append(want, f.ID+" · "+f.Subject)
+				want = append(want, string(f.ID)+" · "+f.Subject)
 			}
 			for _, w := range want {
 				if !strings.Contains(text, w) {

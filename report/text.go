@@ -36,11 +36,22 @@ func Text(w io.Writer, r *result.Result) error {
 	p.line("verdict:  %s (%d fail, %d warn, %d pass)", strings.ToUpper(string(r.Verdict())), c.Fail, c.Warn, c.Pass)
 
 	s := r.Summary
-	p.section("Bank")
-	p.line("%d × %d %s (%s)", s.Bank.Series, s.Bank.Parallel, s.Bank.Battery, s.Bank.Chemistry)
-	for _, f := range r.Figures {
-		if strings.HasPrefix(f.ID, "bank.") {
-			p.line("  %-16s %s   %s", f.ID[len("bank."):], num(f.Value, f.Unit), f.Formula)
+	banks := banksOf(r)
+	if len(banks) > 1 {
+		p.section("Banks")
+	} else {
+		p.section("Bank")
+	}
+	for _, b := range banks {
+		if b.Name != "" {
+			p.line("%s (%s, %s): %d × %d %s (%s)", b.Name, b.Role, b.System, b.Series, b.Parallel, b.Battery, b.Chemistry)
+		} else {
+			p.line("%d × %d %s (%s)", b.Series, b.Parallel, b.Battery, b.Chemistry)
+		}
+		for _, f := range r.Figures {
+			if f.ID.Area() == "bank" && (b.Name == "" || f.Subject == b.Name) {
+				p.line("  %-16s %s   %s", strings.TrimPrefix(string(f.ID), "bank."), num(f.Value, f.Unit), f.Formula)
+			}
 		}
 	}
 
@@ -51,7 +62,7 @@ func Text(w io.Writer, r *result.Result) error {
 	for _, a := range s.Arrays {
 		stc := ""
 		for _, f := range r.Figures {
-			if f.ID == "array.stcPower" && f.Subject == a.Name {
+			if f.ID == result.FigArraySTCPower && f.Subject == a.Name {
 				stc = num(f.Value, f.Unit) + " at STC"
 			}
 		}
@@ -106,11 +117,11 @@ func Text(w io.Writer, r *result.Result) error {
 					continue
 				}
 				switch f.ID {
-				case "pv.coldVoc":
+				case result.CheckColdVoc:
 					parts = append(parts, fmt.Sprintf("cold Voc %.1f V ≤ %g V max", f.Value, f.Limit))
-				case "pv.hotVmp":
+				case result.CheckHotVmp:
 					parts = append(parts, fmt.Sprintf("hot Vmp %.1f V ≥ %.1f V needed", f.Value, f.Limit))
-				case "pv.inputCurrent":
+				case result.CheckInputCurrent:
 					if f.Limit > 0 {
 						parts = append(parts, fmt.Sprintf("input %.1f A ≤ %g A", f.Value, f.Limit))
 					}
@@ -132,7 +143,7 @@ func Text(w io.Writer, r *result.Result) error {
 			for _, m := range r.Harvest[0].Months {
 				cell := "-"
 				for _, f := range r.Figures {
-					if f.ID == "energy.solarFraction" && f.Subject == b.Scenario+" "+m.Month {
+					if f.ID == result.FigSolarFraction && f.Subject == b.Scenario+" "+m.Month {
 						cell = fmt.Sprintf("%.0f %%", f.Value)
 					}
 				}
@@ -189,6 +200,15 @@ func Text(w io.Writer, r *result.Result) error {
 	}
 	p.line("%d findings pass; `--format json` lists every one with its figures", passed)
 	return p.err
+}
+
+// banksOf is every bank of a result; a result written before banks were
+// listed has only its one bank.
+func banksOf(r *result.Result) []result.BankLine {
+	if len(r.Summary.Banks) > 0 {
+		return r.Summary.Banks
+	}
+	return []result.BankLine{r.Summary.Bank}
 }
 
 // length writes metres in the design's preferred units.

@@ -68,12 +68,12 @@ type InputChange struct {
 
 // FigureChange is one computed figure that differs.
 type FigureChange struct {
-	ID      string  `json:"id"`
-	Subject string  `json:"subject"`
-	Unit    string  `json:"unit"`
-	Old     float64 `json:"old"`
-	New     float64 `json:"new"`
-	Diff    float64 `json:"diff"`
+	ID      FigureID `json:"id"`
+	Subject string   `json:"subject"`
+	Unit    string   `json:"unit"`
+	Old     float64  `json:"old"`
+	New     float64  `json:"new"`
+	Diff    float64  `json:"diff"`
 	// Percent is the change relative to Old; 0 when Old is 0.
 	Percent float64 `json:"percent"`
 	// Added and Removed mark a figure on one side only.
@@ -83,10 +83,10 @@ type FigureChange struct {
 
 // StatusChange is one finding whose status changed.
 type StatusChange struct {
-	ID      string `json:"id"`
-	Subject string `json:"subject"`
-	Old     Status `json:"old,omitempty"` // "" when the finding is new
-	New     Status `json:"new,omitempty"` // "" when it is gone
+	ID      CheckID `json:"id"`
+	Subject string  `json:"subject"`
+	Old     Status  `json:"old,omitempty"` // "" when the finding is new
+	New     Status  `json:"new,omitempty"` // "" when it is gone
 	// Regression is true when it got worse (pass → warn or fail, warn →
 	// fail, or a new failing finding); Fix when it got better.
 	Regression bool    `json:"regression,omitempty"`
@@ -120,14 +120,17 @@ const figureTolerance = 1e-9
 // by CompareInputs, from the compiled designs.
 func Compare(old, new *Result) HullDelta {
 	d := HullDelta{Path: new.Design.Path, Name: new.Design.Name, Hull: new.Design.Hull, State: HullChanged, Verdict: new.Verdict()}
-	type key struct{ id, subject string }
+	type key struct {
+		id      string
+		subject string
+	}
 	of := map[key]Figure{}
 	for _, f := range old.Figures {
-		of[key{f.ID, f.Subject}] = f
+		of[key{string(f.ID), f.Subject}] = f
 	}
 	nf := map[key]bool{}
 	for _, f := range new.Figures {
-		k := key{f.ID, f.Subject}
+		k := key{string(f.ID), f.Subject}
 		nf[k] = true
 		o, ok := of[k]
 		switch {
@@ -142,7 +145,7 @@ func Compare(old, new *Result) HullDelta {
 		}
 	}
 	for _, f := range old.Figures {
-		if !nf[key{f.ID, f.Subject}] {
+		if !nf[key{string(f.ID), f.Subject}] {
 			d.Figures = append(d.Figures, FigureChange{ID: f.ID, Subject: f.Subject, Unit: f.Unit, Old: f.Value, Diff: -f.Value, Removed: true})
 		}
 	}
@@ -156,11 +159,11 @@ func Compare(old, new *Result) HullDelta {
 
 	ok := map[key]Finding{}
 	for _, f := range old.Checks {
-		ok[key{f.ID, f.Subject}] = f
+		ok[key{string(f.ID), f.Subject}] = f
 	}
 	seen := map[key]bool{}
 	for _, f := range new.Checks {
-		k := key{f.ID, f.Subject}
+		k := key{string(f.ID), f.Subject}
 		seen[k] = true
 		o, had := ok[k]
 		if had && o.Status == f.Status {
@@ -177,7 +180,7 @@ func Compare(old, new *Result) HullDelta {
 		d.Findings = append(d.Findings, sc)
 	}
 	for _, f := range old.Checks {
-		if k := (key{f.ID, f.Subject}); !seen[k] {
+		if k := (key{string(f.ID), f.Subject}); !seen[k] {
 			d.Findings = append(d.Findings, StatusChange{ID: f.ID, Subject: f.Subject, Old: f.Status, Fix: f.Status != Pass, Message: "no longer checked: " + f.Message, OldValue: f.Value, Unit: f.Unit})
 		}
 	}

@@ -52,9 +52,9 @@ func FleetLineOf(path string, r *Result) FleetLine {
 	l.Bank = r.Summary.Bank.Battery
 	for _, f := range r.Figures {
 		switch f.ID {
-		case "bank.nominalEnergy":
+		case FigBankNominalEnergy:
 			l.Bank = fmtBank(r.Summary.Bank, f.Value)
-		case "array.stcPower":
+		case FigArraySTCPower:
 			l.Array += f.Value
 		}
 	}

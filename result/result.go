@@ -55,6 +55,8 @@ type Result struct {
 	Voyage *Voyage `json:"voyage,omitempty"`
 	// BOM is the bill of materials.
 	BOM *BOM `json:"bom,omitempty"`
+	// System is the design's topology, for the one-line diagram.
+	System *System `json:"system,omitempty"`
 	// Problems are input errors; a Result with problems has no figures.
 	Problems []Problem `json:"problems,omitempty"`
 }
@@ -94,8 +96,11 @@ type Rulebook struct {
 
 // Summary is an overview of the validated design.
 type Summary struct {
-	Loads    []LoadLine    `json:"loads"`
+	Loads []LoadLine `json:"loads"`
+	// Bank is the primary bank (the house bank of a boat with several);
+	// Banks are every bank.
 	Bank     BankLine      `json:"bank"`
+	Banks    []BankLine    `json:"banks"`
 	Arrays   []ArrayLine   `json:"arrays"`
 	Circuits []CircuitLine `json:"circuits"`
 }
@@ -108,6 +113,9 @@ type LoadLine struct {
 	Draw     string  `json:"draw"`
 	Duty     float64 `json:"duty"`
 	Inverter string  `json:"inverter,omitempty"`
+	Quantity int     `json:"quantity"`
+	// Bank is the bank that feeds it, on a boat with several.
+	Bank string `json:"bank,omitempty"`
 }
 
 // BankLine is the bank as declared.
@@ -116,6 +124,10 @@ type BankLine struct {
 	Chemistry string `json:"chemistry"`
 	Series    int    `json:"series"`
 	Parallel  int    `json:"parallel"`
+	// Name, Role and System are given on a boat with several banks.
+	Name   string `json:"name,omitempty"`
+	Role   string `json:"role,omitempty"`
+	System string `json:"system,omitempty"`
 }
 
 // ArrayLine is one array as declared.
@@ -221,6 +233,37 @@ type Voyage struct {
 	SoC []float64 `json:"soc"`
 }
 
+// System is a design's topology: every node the wiring joins, positive
+// side and negative, with what it is. The runs are the wiring schedule's
+// lines and the loads the summary's.
+type System struct {
+	Nodes []Node `json:"nodes"`
+}
+
+// Node is one node of the wiring.
+type Node struct {
+	Name string `json:"name"`
+	// Kind is bank, bus, panel, switch, fuse-block, terminal-block, load,
+	// array, controller, inverter, charger, link, converter, negative-bus
+	// or shunt.
+	Kind string `json:"kind"`
+	// Negative is true for a node of the negative side (a bank's negative
+	// post is a bank node there).
+	Negative bool `json:"negative,omitempty"`
+	// Bank is the bank whose side it is on.
+	Bank string `json:"bank,omitempty"`
+	// Volts is the nominal voltage of its side.
+	Volts float64 `json:"volts,omitempty"`
+	// Label says what it is, in a few words: "2S × 2P skua-lfp200",
+	// "DC-DC charger 30 A"; Part is the catalog part, if any.
+	Label string `json:"label"`
+	Part  string `json:"part,omitempty"`
+	// Pair is a positive bus's negative bus; From and To a link's banks.
+	Pair string `json:"pair,omitempty"`
+	From string `json:"from,omitempty"`
+	To   string `json:"to,omitempty"`
+}
+
 // ScenarioBudget is the energy one period of a scenario draws from the bank.
 type ScenarioBudget struct {
 	Scenario string  `json:"scenario"`
@@ -264,6 +307,14 @@ type WiringLine struct {
 	// Ampacity is the derated allowable current, A.
 	Ampacity   float64 `json:"ampacity"`
 	Protection string  `json:"protection,omitempty"`
+	// ReturnSize and ReturnLength (m) describe a return conductor that is
+	// not of the run's size and length; ReturnVia names the negative
+	// conductor a run's return travels on instead of its own; ReturnTo the
+	// negative bus, shunt or bank post its own return lands on.
+	ReturnSize   string  `json:"returnSize,omitempty"`
+	ReturnLength float64 `json:"returnLength,omitempty"`
+	ReturnVia    string  `json:"returnVia,omitempty"`
+	ReturnTo     string  `json:"returnTo,omitempty"`
 	// Status is the worst of the run's wiring and protection findings.
 	Status Status `json:"status"`
 }
@@ -271,7 +322,7 @@ type WiringLine struct {
 // Figure is a computed value with what it was computed from.
 type Figure struct {
 	// ID names the quantity, stable across runs: "bank.nominalEnergy".
-	ID string `json:"id"`
+	ID FigureID `json:"id"`
 	// Subject is the design's own name for what the figure is about.
 	Subject string  `json:"subject"`
 	Value   float64 `json:"value"`
@@ -293,7 +344,7 @@ type Input struct {
 
 // Finding is one check's verdict on one subject.
 type Finding struct {
-	ID      string  `json:"id"`
+	ID      CheckID `json:"id"`
 	Subject string  `json:"subject"`
 	Status  Status  `json:"status"`
 	Value   float64 `json:"value"`

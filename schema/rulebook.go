@@ -21,6 +21,7 @@ type Rulebook struct {
 	ChargeRate       *ChargeRateRule   `json:"chargeRate,omitempty"`
 	CapacityTemp     *CapacityTempRule `json:"capacityTemperature,omitempty"`
 	Charging         *ChargingRule     `json:"charging,omitempty"`
+	Sources          *SourcesRule      `json:"sources,omitempty"`
 	BOM              *BOMRule          `json:"bom,omitempty"`
 }
 
@@ -165,6 +166,12 @@ type ChargingRule struct {
 	ChargeVoltage      float64 `json:"chargeVoltage"`
 }
 
+// SourcesRule holds defaults of charge sources.
+type SourcesRule struct {
+	Sourced
+	AlternatorHotFactor float64 `json:"alternatorHotFactor"`
+}
+
 // BOMRule holds bill-of-materials allowances.
 type BOMRule struct {
 	Sourced
@@ -198,6 +205,7 @@ func (r Rulebook) Over(o *Rulebook) Rulebook {
 	pick(&r.BOM, o.BOM)
 	pick(&r.CapacityTemp, o.CapacityTemp)
 	pick(&r.Charging, o.Charging)
+	pick(&r.Sources, o.Sources)
 	return r
 }
 

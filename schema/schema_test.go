@@ -1,6 +1,7 @@
 package schema
 
 import (
+	"reflect"
 	"strings"
 	"testing"
 
@@ -186,6 +187,26 @@ func TestPatternsAcceptEverySpelling(t *testing.T) {
 					t.Errorf("%s rejects %q, which the parser accepts: %v", def, in, err)
 				}
 			}
+		}
+	}
+}
+
+// TestRulebookOverCoversEveryTable: Over takes every table a yard's
+// rulebook gives. A table added to Rulebook but not to Over would be
+// silently ignored in a yard's override.
+func TestRulebookOverCoversEveryTable(t *testing.T) {
+	rt := reflect.TypeOf(Rulebook{})
+	for i := 0; i < rt.NumField(); i++ {
+		f := rt.Field(i)
+		if f.Type.Kind() != reflect.Pointer {
+			continue
+		}
+		var over Rulebook
+		table := reflect.New(f.Type.Elem())
+		reflect.ValueOf(&over).Elem().Field(i).Set(table)
+		got := Rulebook{}.Over(&over)
+		if reflect.ValueOf(got).Field(i).Pointer() != table.Pointer() {
+			t.Errorf("Rulebook.Over ignores the %s table (%s): add it to Over", f.Name, f.Tag.Get("json"))
 		}
 	}
 }

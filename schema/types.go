@@ -18,7 +18,11 @@ type Design struct {
 	Inverters   map[string]Inverter   `json:"inverters,omitempty"`
 	Voyage      *Voyage               `json:"voyage,omitempty"`
 	Autonomy    *Autonomy             `json:"autonomy,omitempty"`
-	Bank        Bank                  `json:"bank"`
+	Bank        *Bank                 `json:"bank,omitempty"`
+	Banks       map[string]Bank       `json:"banks,omitempty"`
+	Links       map[string]Link       `json:"links,omitempty"`
+	Converters  map[string]Converter  `json:"converters,omitempty"`
+	Negative    *Negative             `json:"negative,omitempty"`
 	Arrays      map[string]Array      `json:"arrays,omitempty"`
 	Controllers map[string]Controller `json:"controllers,omitempty"`
 	Chargers    map[string]Charger    `json:"chargers,omitempty"`
@@ -44,8 +48,12 @@ type Vessel struct {
 }
 
 // SystemVolts returns the nominal system voltage in volts.
-func (v Vessel) SystemVolts() float64 {
-	q, err := unit.ParseAs(v.System, unit.DimVoltage)
+func (v Vessel) SystemVolts() float64 { return Volts(v.System) }
+
+// Volts returns a nominal system voltage ("12 V", "24 V", "48 V") in
+// volts, or 0 for anything else.
+func Volts(system string) float64 {
+	q, err := unit.ParseAs(system, unit.DimVoltage)
 	if err != nil {
 		return 0 // the schema allows only 12, 24 or 48 V
 	}
@@ -111,6 +119,22 @@ type Scenario struct {
 	Description string  `json:"description,omitempty"`
 	Hours       float64 `json:"hours"`
 	EngineHours float64 `json:"engineHours"`
+	ShorePower  bool    `json:"shorePower"`
+}
+
+// Window is a time of day, hours from midnight; To below From runs past
+// midnight.
+type Window struct {
+	From float64 `json:"from"`
+	To   float64 `json:"to"`
+}
+
+// Hours is the length of the window.
+func (w Window) Hours() float64 {
+	if w.To >= w.From {
+		return w.To - w.From
+	}
+	return 24 - w.From + w.To
 }
 
 // Load is one consumer.
@@ -125,13 +149,20 @@ type Load struct {
 	Surge    *unit.Current      `json:"surge,omitempty"`
 	Inverter string             `json:"inverter,omitempty"`
 	Quantity int                `json:"quantity"`
+	Windows  []Window           `json:"windows,omitempty"`
 }
 
 // Inverter feeds AC loads.
 type Inverter struct {
-	Part    InverterPart       `json:"part"`
-	Circuit string             `json:"circuit"`
-	Hours   map[string]float64 `json:"hours,omitempty"`
+	Part     InverterPart       `json:"part"`
+	Circuit  string             `json:"circuit"`
+	Hours    map[string]float64 `json:"hours,omitempty"`
+	Charging *InverterCharging  `json:"charging,omitempty"`
+}
+
+// InverterCharging is how an inverter-charger charges on shore power.
+type InverterCharging struct {
+	Hours map[string]float64 `json:"hours,omitempty"`
 }
 
 // Voyage is the design voyage.
@@ -161,6 +192,8 @@ type Bank struct {
 	Temperature      unit.Temperature `json:"temperature"`
 	EndOfLife        float64          `json:"endOfLife"`
 	DepthOfDischarge *float64         `json:"depthOfDischarge,omitempty"`
+	Role             string           `json:"role"`
+	System           string           `json:"system,omitempty"`
 }
 
 // Array is one solar array.
@@ -187,26 +220,63 @@ type Controller struct {
 // Charger is a charge source other than solar.
 type Charger struct {
 	Kind        string             `json:"kind"`
-	Output      unit.Current       `json:"output"`
+	Part        *ChargerPart       `json:"part,omitempty"`
+	Output      *unit.Current      `json:"output,omitempty"`
 	Hours       map[string]float64 `json:"hours,omitempty"`
+	Windows     []Window           `json:"windows,omitempty"`
 	Description string             `json:"description,omitempty"`
 }
 
-// ChargeHours is how long the charger runs in one period of scenario s.
+// Link joins two banks.
+type Link struct {
+	Part LinkPart `json:"part"`
+	From string   `json:"from"`
+	To   string   `json:"to"`
+}
+
+// Converter feeds loads at another voltage.
+type Converter struct {
+	Part ConverterPart `json:"part"`
+}
+
+// Negative is the return side of the wiring.
+type Negative struct {
+	Buses  map[string]NegativeBus `json:"buses,omitempty"`
+	Shunts map[string]Shunt       `json:"shunts,omitempty"`
+	Wiring map[string]Conductor   `json:"wiring,omitempty"`
+}
+
+// NegativeBus is a negative busbar.
+type NegativeBus struct {
+	Part *Busbar `json:"part,omitempty"`
+}
+
+// Shunt is a battery monitor's shunt.
+type Shunt struct {
+	Part ShuntPart `json:"part"`
+}
+
+// ChargeHours is how long the charger runs in one period of scenario s:
+// its hours, else an alternator's the engine's, a shore charger's the
+// whole period on shore power.
 func (c Charger) ChargeHours(s string, sc Scenario) float64 {
 	if h, ok := c.Hours[s]; ok {
 		return h
 	}
-	if c.Kind == "alternator" {
+	switch {
+	case c.Kind == "alternator":
 		return sc.EngineHours
+	case c.Kind == "shore" && sc.ShorePower:
+		return sc.Hours
 	}
 	return 0
 }
 
 // Bus is a junction in the wiring.
 type Bus struct {
-	Kind string  `json:"kind"`
-	Part *Busbar `json:"part,omitempty"`
+	Kind     string  `json:"kind"`
+	Part     *Busbar `json:"part,omitempty"`
+	Negative string  `json:"negative,omitempty"`
 }
 
 // Conductor is a DC run, positive and return.
@@ -224,6 +294,14 @@ type Conductor struct {
 	Sheathed    bool             `json:"sheathed"`
 	Cable       *Cable           `json:"cable,omitempty"`
 	Protection  *Protection      `json:"protection,omitempty"`
+	Return      *Return          `json:"return,omitempty"`
+}
+
+// Return is a run's return conductor where it differs from the run.
+type Return struct {
+	Size   *unit.Size   `json:"size,omitempty"`
+	Length *unit.Length `json:"length,omitempty"`
+	To     string       `json:"to,omitempty"`
 }
 
 // Part is what every catalog part has.
@@ -294,6 +372,58 @@ type InverterPart struct {
 	Efficiency float64     `json:"efficiency"`
 	Idle       unit.Power  `json:"idle"`
 	Systems    []string    `json:"systems,omitempty"`
+	// Charger and PassThrough describe an inverter-charger.
+	Charger     *unit.Current `json:"charger,omitempty"`
+	PassThrough *unit.Current `json:"passThrough,omitempty"`
+}
+
+// ChargerPart is an alternator or a charger.
+type ChargerPart struct {
+	Part
+	Kind           string        `json:"kind"`
+	Output         unit.Current  `json:"output"`
+	HotFactor      *float64      `json:"hotFactor,omitempty"`
+	Regulator      *unit.Voltage `json:"regulator,omitempty"`
+	CurrentLimited bool          `json:"currentLimited"`
+	Absorption     *unit.Voltage `json:"absorption,omitempty"`
+	Float          *unit.Voltage `json:"float,omitempty"`
+	Efficiency     float64       `json:"efficiency"`
+	Systems        []string      `json:"systems,omitempty"`
+}
+
+// LinkPart is a combiner, isolator or DC-DC charger.
+type LinkPart struct {
+	Part
+	Kind           string        `json:"kind"`
+	Rating         unit.Current  `json:"rating"`
+	Voltage        *unit.Voltage `json:"voltage,omitempty"`
+	CloseAt        *unit.Voltage `json:"closeAt,omitempty"`
+	OpenAt         *unit.Voltage `json:"openAt,omitempty"`
+	Drop           *unit.Voltage `json:"drop,omitempty"`
+	Efficiency     float64       `json:"efficiency"`
+	CurrentLimited bool          `json:"currentLimited"`
+	Inputs         []string      `json:"inputs,omitempty"`
+	Outputs        []string      `json:"outputs,omitempty"`
+	Absorption     *unit.Voltage `json:"absorption,omitempty"`
+}
+
+// ConverterPart is a DC-DC converter feeding loads.
+type ConverterPart struct {
+	Part
+	Inputs     []string     `json:"inputs,omitempty"`
+	Output     string       `json:"output"`
+	Rating     unit.Current `json:"rating"`
+	Efficiency float64      `json:"efficiency"`
+	Idle       unit.Power   `json:"idle"`
+	Isolated   bool         `json:"isolated"`
+}
+
+// ShuntPart is a battery monitor's shunt.
+type ShuntPart struct {
+	Part
+	Rating  unit.Current  `json:"rating"`
+	Output  *unit.Voltage `json:"output,omitempty"`
+	Voltage *unit.Voltage `json:"voltage,omitempty"`
 }
 
 // Protection is a fuse or breaker and how it is fitted.
@@ -333,8 +463,10 @@ type Terminal struct {
 // Busbar is a busbar, terminal block or fuse block.
 type Busbar struct {
 	Part
-	Rating *unit.Current `json:"rating,omitempty"`
-	Studs  int           `json:"studs,omitempty"`
+	Rating  *unit.Current `json:"rating,omitempty"`
+	Studs   int           `json:"studs,omitempty"`
+	Ways    int           `json:"ways,omitempty"`
+	Voltage *unit.Voltage `json:"voltage,omitempty"`
 }
 
 // Names returns the keys of a map of named things, sorted, so that every

@@ -123,7 +123,7 @@ func failSummary(r *result.Result) string {
 	var names []string
 	for _, f := range r.Checks {
 		if f.Status == result.Fail {
-			names = append(names, f.ID+" "+f.Subject)
+			names = append(names, string(f.ID)+" "+f.Subject)
 		}
 	}
 	n := len(names)

@@ -2,7 +2,7 @@
 // elevation and azimuth for a fixed set of places and times, computed with
 // the general-purpose astronomy library astronomy-engine (VSOP87 Earth,
 // IAU 2000B nutation, Espenak–Meeus ΔT), as an independent check of the
-// NREL SPA in checks/solar.
+// NREL SPA in energy/solar.
 //
 //	cd testdata/solar && npm install --no-save --no-package-lock
 //	node gen.mjs > positions.tsv

@@ -1,6 +1,6 @@
-package checks
+package model
 
-// Reference tests: the checks' conductor arithmetic against published
+// Reference tests: the model's conductor arithmetic against published
 // tables. The values come from /work/shared/REFERENCES.md; each row names
 // its source there, and values that REFERENCES.md tags [from memory] are
 // marked "from memory" here.
@@ -137,11 +137,11 @@ func TestResistanceNECTable8(t *testing.T) {
 			{"tinned-copper", "coated stranded", row.coated, row.coatTol},
 		} {
 			c := &schema.Conductor{Material: col.material}
-			res := conductorResistance(rules, c, s, 75)
-			if res.temp != 75 {
-				t.Fatalf("%s: resistance at %v °C, asked for 75", row.awg, res.temp)
+			res := ConductorResistance(rules, c, s, 75)
+			if res.Temp != 75 {
+				t.Fatalf("%s: resistance at %v °C, asked for 75", row.awg, res.Temp)
 			}
-			got := res.rT * mPerKft
+			got := res.RT * mPerKft
 			results = append(results, result{row.awg + " " + col.material, got, col.want, relDev(got, col.want), col.tol, row.source, col.material, col.name})
 		}
 	}
@@ -237,13 +237,13 @@ func TestResistanceIEC60228(t *testing.T) {
 			want     float64
 		}{{"copper", row.plain}, {"tinned-copper", row.tinned}} {
 			t.Run(row.size+" "+m.material, func(t *testing.T) {
-				res := conductorResistance(rules, &schema.Conductor{Material: m.material}, sizeOf(t, row.size), 20)
+				res := ConductorResistance(rules, &schema.Conductor{Material: m.material}, sizeOf(t, row.size), 20)
 				want := m.want / 1000 // Ω/km → Ω/m
-				if !res.fromTable {
-					t.Errorf("%s not found in the rulebook's table: %s", row.size, res.basis)
+				if !res.FromTable {
+					t.Errorf("%s not found in the rulebook's table: %s", row.size, res.Basis)
 				}
-				if math.Abs(res.r20-want) > 1e-12 || math.Abs(res.rT-want) > 1e-12 {
-					t.Errorf("R′(20 °C) = %.6g Ω/m (at T %.6g), want %.6g Ω/m (IEC 60228 class 5 %s)", res.r20, res.rT, want, m.material)
+				if math.Abs(res.R20-want) > 1e-12 || math.Abs(res.RT-want) > 1e-12 {
+					t.Errorf("R′(20 °C) = %.6g Ω/m (at T %.6g), want %.6g Ω/m (IEC 60228 class 5 %s)", res.R20, res.RT, want, m.material)
 				}
 			})
 		}
@@ -263,9 +263,9 @@ func TestResistanceTemperatureCorrection(t *testing.T) {
 		for _, m := range []string{"copper", "tinned-copper"} {
 			t.Run(s+" "+m, func(t *testing.T) {
 				c := &schema.Conductor{Material: m}
-				r20 := conductorResistance(rules, c, sizeOf(t, s), 20)
-				r75 := conductorResistance(rules, c, sizeOf(t, s), 75)
-				got := r75.rT / r20.rT
+				r20 := ConductorResistance(rules, c, sizeOf(t, s), 20)
+				r75 := ConductorResistance(rules, c, sizeOf(t, s), 75)
+				got := r75.RT / r20.RT
 				if math.Abs(got-want) > 1e-9 {
 					t.Errorf("R(75)/R(20) = %.6f, want 1 + 0.00393 × 55 = %.6f", got, want)
 				}
@@ -277,16 +277,25 @@ func TestResistanceTemperatureCorrection(t *testing.T) {
 	}
 }
 
-// ampInput is the smallest Input the ampacity lookup reads.
-func ampInput(t *testing.T, rules schema.Rulebook) *Input {
-	return &Input{
+// ampInput is the smallest System the ampacity lookup reads.
+func ampInput(t *testing.T, rules schema.Rulebook) *System {
+	return &System{
 		Design: &schema.Design{
 			Vessel: schema.Vessel{System: "12 V"},
 			Site:   schema.Site{EngineSpace: tempOf(t, "50 °C")},
 		},
-		Rules:    rules,
-		Position: func(string) string { return "" },
+		Rules: rules,
+		Volts: 12,
 	}
+}
+
+func mustQ[T any](t *testing.T, s string, dim unit.Dim, wrap func(unit.Quantity) T) T {
+	t.Helper()
+	q, err := unit.ParseAs(s, dim)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return wrap(q)
 }
 
 // table5 is 33 CFR 183.425 Table 5, allowable amperage of conductors under
@@ -324,28 +333,28 @@ func TestAmpacityTable5(t *testing.T) {
 		for i, rating := range table5Ratings {
 			t.Run(row.size+" "+rating, func(t *testing.T) {
 				c := &schema.Conductor{Insulation: tempOf(t, rating), Bundle: 1}
-				a := conductorAmpacity(in, c, sizeOf(t, row.size))
-				if !a.ok {
-					t.Fatalf("no ampacity: %s", a.note)
+				a := in.Ampacity(c, sizeOf(t, row.size))
+				if !a.OK {
+					t.Fatalf("no ampacity: %s", a.Note)
 				}
-				if a.table != row.amps[i] || a.derated != row.amps[i] {
-					t.Errorf("ampacity = %g A (derated %g A, row %q, column %q), want %g A (33 CFR 183.425 Table 5)", a.table, a.derated, a.sizeKey, a.ratingKey, row.amps[i])
+				if a.Table != row.amps[i] || a.Derated != row.amps[i] {
+					t.Errorf("ampacity = %g A (derated %g A, row %q, column %q), want %g A (33 CFR 183.425 Table 5)", a.Table, a.Derated, a.SizeKey, a.RatingKey, row.amps[i])
 				}
-				if a.engine != 1 || a.bundle != 1 {
-					t.Errorf("factors %g × %g for a run outside the engine space, unbundled; want 1 × 1", a.engine, a.bundle)
+				if a.Engine != 1 || a.Bundle != 1 {
+					t.Errorf("factors %g × %g for a run outside the engine space, unbundled; want 1 × 1", a.Engine, a.Bundle)
 				}
 			})
 		}
 	}
 	// An insulation rating between columns takes the column below it.
 	c := &schema.Conductor{Insulation: tempOf(t, "100 °C"), Bundle: 1}
-	if a := conductorAmpacity(in, c, sizeOf(t, "10 AWG")); a.table != 55 || a.ratingKey != "90 °C" {
-		t.Errorf("10 AWG rated 100 °C: %g A from column %q, want 55 A from 90 °C (highest rating not above its own)", a.table, a.ratingKey)
+	if a := in.Ampacity(c, sizeOf(t, "10 AWG")); a.Table != 55 || a.RatingKey != "90 °C" {
+		t.Errorf("10 AWG rated 100 °C: %g A from column %q, want 55 A from 90 °C (highest rating not above its own)", a.Table, a.RatingKey)
 	}
 	// An insulation rating written in °F: 221 °F = 105 °C.
 	c = &schema.Conductor{Insulation: tempOf(t, "221 °F"), Bundle: 1}
-	if a := conductorAmpacity(in, c, sizeOf(t, "10 AWG")); a.table != 60 {
-		t.Errorf("10 AWG rated 221 °F: %g A from column %q, want 60 A (105 °C column)", a.table, a.ratingKey)
+	if a := in.Ampacity(c, sizeOf(t, "10 AWG")); a.Table != 60 {
+		t.Errorf("10 AWG rated 221 °F: %g A from column %q, want 60 A (105 °C column)", a.Table, a.RatingKey)
 	}
 }
 
@@ -367,18 +376,18 @@ func TestAmpacityEngineSpace(t *testing.T) {
 		for i, rating := range table5Ratings {
 			t.Run(sz+" "+rating, func(t *testing.T) {
 				c := &schema.Conductor{Insulation: tempOf(t, rating), EngineSpace: true, Bundle: 1}
-				a := conductorAmpacity(in, c, sizeOf(t, sz))
+				a := in.Ampacity(c, sizeOf(t, sz))
 				want := row[i] * factors[i]
-				if a.engine != factors[i] || math.Abs(a.derated-want) > 1e-9 {
-					t.Errorf("engine-space ampacity %g A × %g = %g A, want %g × %g = %g A (Table 5 note 1, from memory)", a.table, a.engine, a.derated, row[i], factors[i], want)
+				if a.Engine != factors[i] || math.Abs(a.Derated-want) > 1e-9 {
+					t.Errorf("engine-space ampacity %g A × %g = %g A, want %g × %g = %g A (Table 5 note 1, from memory)", a.Table, a.Engine, a.Derated, row[i], factors[i], want)
 				}
 			})
 		}
 	}
 	// The worked figure for the 105 °C column: 10 AWG 60 A × 0.86 = 51.6 A.
 	c := &schema.Conductor{Insulation: tempOf(t, "105 °C"), EngineSpace: true, Bundle: 1}
-	if a := conductorAmpacity(in, c, sizeOf(t, "10 AWG")); math.Abs(a.derated-51.6) > 1e-9 {
-		t.Errorf("10 AWG 105 °C in an engine space: %g A, want 60 × 0.86 = 51.6 A", a.derated)
+	if a := in.Ampacity(c, sizeOf(t, "10 AWG")); math.Abs(a.Derated-51.6) > 1e-9 {
+		t.Errorf("10 AWG 105 °C in an engine space: %g A, want 60 × 0.86 = 51.6 A", a.Derated)
 	}
 }
 
@@ -403,16 +412,16 @@ func TestAmpacityBundling(t *testing.T) {
 	for _, row := range rows {
 		t.Run(fmt.Sprintf("%d conductors", row.bundle), func(t *testing.T) {
 			c := &schema.Conductor{Insulation: tempOf(t, "105 °C"), Bundle: row.bundle}
-			a := conductorAmpacity(in, c, sizeOf(t, "8 AWG"))
-			if a.bundle != row.factor || math.Abs(a.derated-80*row.factor) > 1e-9 {
-				t.Errorf("%d bundled: 80 A × %g = %g A, want factor %g (Table 5 note 2, from memory)", row.bundle, a.bundle, a.derated, row.factor)
+			a := in.Ampacity(c, sizeOf(t, "8 AWG"))
+			if a.Bundle != row.factor || math.Abs(a.Derated-80*row.factor) > 1e-9 {
+				t.Errorf("%d bundled: 80 A × %g = %g A, want factor %g (Table 5 note 2, from memory)", row.bundle, a.Bundle, a.Derated, row.factor)
 			}
 		})
 	}
 	// Engine space and bundling multiply: 4 AWG 105 °C, 160 A × 0.86 × 0.70.
 	c := &schema.Conductor{Insulation: tempOf(t, "105 °C"), EngineSpace: true, Bundle: 3}
-	if a := conductorAmpacity(in, c, sizeOf(t, "4 AWG")); math.Abs(a.derated-160*0.86*0.70) > 1e-9 {
-		t.Errorf("4 AWG 105 °C, engine space, 3 bundled: %g A, want 160 × 0.86 × 0.70 = %g A", a.derated, 160*0.86*0.70)
+	if a := in.Ampacity(c, sizeOf(t, "4 AWG")); math.Abs(a.Derated-160*0.86*0.70) > 1e-9 {
+		t.Errorf("4 AWG 105 °C, engine space, 3 bundled: %g A, want 160 × 0.86 × 0.70 = %g A", a.Derated, 160*0.86*0.70)
 	}
 }
 
@@ -442,18 +451,18 @@ func TestAmpacityMetric(t *testing.T) {
 	for _, row := range rows {
 		t.Run(row.size, func(t *testing.T) {
 			c := &schema.Conductor{Insulation: tempOf(t, "105 °C"), Bundle: 1}
-			a := conductorAmpacity(in, c, sizeOf(t, row.size))
-			if !a.ok || a.sizeKey != row.row || a.table != row.amps {
-				t.Errorf("%s rated from row %q at %g A (%s), want row %s at %g A", row.size, a.sizeKey, a.table, a.note, row.row, row.amps)
+			a := in.Ampacity(c, sizeOf(t, row.size))
+			if !a.OK || a.SizeKey != row.row || a.Table != row.amps {
+				t.Errorf("%s rated from row %q at %g A (%s), want row %s at %g A", row.size, a.SizeKey, a.Table, a.Note, row.row, row.amps)
 			}
-			if !strings.Contains(a.note, "rated as "+row.row) {
-				t.Errorf("note %q does not say it is rated as %s", a.note, row.row)
+			if !strings.Contains(a.Note, "rated as "+row.row) {
+				t.Errorf("note %q does not say it is rated as %s", a.Note, row.row)
 			}
 		})
 	}
 	// Smaller than the smallest row: no ampacity, not a silent zero.
 	c := &schema.Conductor{Insulation: tempOf(t, "105 °C"), Bundle: 1}
-	if a := conductorAmpacity(in, c, sizeOf(t, "0.75 mm²")); a.ok {
-		t.Errorf("0.75 mm² (below 18 AWG's 0.823 mm²) rated %g A from row %q; want no row", a.table, a.sizeKey)
+	if a := in.Ampacity(c, sizeOf(t, "0.75 mm²")); a.OK {
+		t.Errorf("0.75 mm² (below 18 AWG's 0.823 mm²) rated %g A from row %q; want no row", a.Table, a.SizeKey)
 	}
 }

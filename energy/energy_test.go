@@ -1,13 +1,14 @@
-package checks
+package energy
 
 import (
-	"fmt"
 	"math"
+	"sync"
 	"testing"
 	"time"
 
-	"github.com/ampwright/ampwright/checks/solar"
-	"github.com/ampwright/ampwright/result"
+	"cuelang.org/go/cue/cuecontext"
+	"github.com/ampwright/ampwright/energy/solar"
+	"github.com/ampwright/ampwright/model"
 	"github.com/ampwright/ampwright/schema"
 	"github.com/ampwright/ampwright/schema/unit"
 )
@@ -23,22 +24,19 @@ func q(t testing.TB, s string, d unit.Dim) unit.Quantity {
 
 func ptr[T any](v T) *T { return &v }
 
-// bankDesign is a bank of n parallel batteries with end of life 1, at
+// bankOf is a bank of n parallel batteries with end of life 1, at
 // 25 °C, for the trade-fact checks.
-func bankDesign(t testing.TB, chemistry, volts, ah string, parallel int, dod float64) *schema.Design {
-	return &schema.Design{
-		Vessel: schema.Vessel{System: "12 V"},
-		Bank: schema.Bank{
-			Series: 1, Parallel: parallel, EndOfLife: 1,
-			Temperature:      unit.Temperature{Quantity: q(t, "25 °C", unit.DimTemperature)},
-			DepthOfDischarge: ptr(dod),
-			Battery: schema.Battery{
-				Chemistry: chemistry,
-				Voltage:   unit.Voltage{Quantity: q(t, volts, unit.DimVoltage)},
-				Capacity:  unit.Charge{Quantity: q(t, ah, unit.DimCharge)},
-			},
+func bankOf(t testing.TB, chemistry, volts, ah string, parallel int, dod float64) *model.Bank {
+	return &model.Bank{Name: "bank", Path: "bank", Role: "house", Volts: 12, System: "12 V", Spec: &schema.Bank{
+		Series: 1, Parallel: parallel, EndOfLife: 1,
+		Temperature:      unit.Temperature{Quantity: q(t, "25 °C", unit.DimTemperature)},
+		DepthOfDischarge: ptr(dod),
+		Battery: schema.Battery{
+			Chemistry: chemistry,
+			Voltage:   unit.Voltage{Quantity: q(t, volts, unit.DimVoltage)},
+			Capacity:  unit.Charge{Quantity: q(t, ah, unit.DimCharge)},
 		},
-	}
+	}}
 }
 
 // TestBankTradeFacts checks the bank model against the trade's arithmetic
@@ -66,7 +64,7 @@ func TestBankTradeFacts(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			bm := Bank(bankDesign(t, tt.chemistry, tt.volts, tt.ah, tt.parallel, tt.dod), rules)
+			bm := Bank(bankOf(t, tt.chemistry, tt.volts, tt.ah, tt.parallel, tt.dod), rules)
 			if math.Abs(bm.Nominal-tt.nominal) > 1e-9 {
 				t.Errorf("nominal = %v Wh, want %v", bm.Nominal, tt.nominal)
 			}
@@ -81,14 +79,14 @@ func TestBankTradeFacts(t *testing.T) {
 // available capacity = 1 / factor (from memory: 1.30 at 4.4 °C).
 func TestLeadAcidTemperature(t *testing.T) {
 	rules := defaultRulebook(t)
-	d := bankDesign(t, "agm", "12 V", "100 Ah", 1, 0.5)
-	d.Bank.Temperature = unit.Temperature{Quantity: q(t, "40 °F", unit.DimTemperature)} // 4.4 °C
-	bm := Bank(d, rules)
+	b := bankOf(t, "agm", "12 V", "100 Ah", 1, 0.5)
+	b.Spec.Temperature = unit.Temperature{Quantity: q(t, "40 °F", unit.DimTemperature)} // 4.4 °C
+	bm := Bank(b, rules)
 	if want := 1 / 1.30; math.Abs(bm.TempFactor-want) > 1e-9 {
 		t.Errorf("F_temp at 40 °F = %v, want 1/1.30 = %v (IEEE 485 Table 1, from memory)", bm.TempFactor, want)
 	}
-	d.Bank.Temperature = unit.Temperature{Quantity: q(t, "35 °C", unit.DimTemperature)}
-	if got := Bank(d, rules).TempFactor; got != 1 {
+	b.Spec.Temperature = unit.Temperature{Quantity: q(t, "35 °C", unit.DimTemperature)}
+	if got := Bank(b, rules).TempFactor; got != 1 {
 		t.Errorf("F_temp at 35 °C = %v, want 1 (extra capacity when warm is not credited)", got)
 	}
 }
@@ -150,92 +148,18 @@ func TestModuleTradeFacts(t *testing.T) {
 	}
 }
 
-// TestColdVoc checks the NEC 690.7 coefficient method on the worked values
-// of REFERENCES.md §7 (from memory; verify against the standard).
-func TestColdVoc(t *testing.T) {
-	rules := defaultRulebook(t)
-	tests := []struct {
-		name                  string
-		voc, beta, tmin       string
-		series                int
-		want                  float64
-		tolerance, controller float64
-	}{
-		// Voc 45.0 V, −0.28 %/°C, 3 °C: factor 1.0616 (from memory).
-		{"45 V at 3 °C", "45 V", "-0.28 %/°C", "3 °C", 1, 45 * 1.0616, 0.001, 600},
-		// Voc 40 V, −0.30 %/°C, −10 °C: 44.2 V a module, 11 modules 486.2 V
-		// (from memory).
-		{"11 × 40 V at −10 °C", "40 V", "-0.30 %/°C", "-10 °C", 11, 486.2, 0.001, 600},
-		// Same string on a 450 V controller: fails.
-		{"11 × 40 V on a 450 V controller", "40 V", "-0.30 %/°C", "-10 °C", 11, 486.2, 0.001, 450},
-	}
-	for _, tt := range tests {
-		t.Run(tt.name, func(t *testing.T) {
-			d := &schema.Design{
-				Vessel: schema.Vessel{System: "48 V"},
-				Site:   schema.Site{RecordLow: unit.Temperature{Quantity: q(t, tt.tmin, unit.DimTemperature)}},
-				Arrays: map[string]schema.Array{"a": {
-					Series: tt.series, Strings: 1, Controller: "c",
-					Module: schema.Module{
-						Voc:     unit.Voltage{Quantity: q(t, tt.voc, unit.DimVoltage)},
-						BetaVoc: &unit.TempCoeff{Quantity: q(t, tt.beta, unit.DimTempCoeff)},
-					},
-				}},
-				Controllers: map[string]schema.Controller{"c": {Part: schema.ControllerPart{
-					MaxPVVoltage: unit.Voltage{Quantity: q(t, fmt.Sprintf("%g V", tt.controller), unit.DimVoltage)},
-				}}},
-			}
-			var rep Report
-			ColdVoc.Run(&Input{Design: d, Rules: rules, Position: func(string) string { return "" }}, &rep)
-			f := rep.Findings[0]
-			if math.Abs(f.Value-tt.want) > tt.tolerance*tt.want {
-				t.Errorf("Voc_max = %v V, want %v V", f.Value, tt.want)
-			}
-			wantStatus := result.Pass
-			if tt.want > tt.controller {
-				wantStatus = result.Fail
-			}
-			if f.Status != wantStatus {
-				t.Errorf("status %s, want %s: %s", f.Status, wantStatus, f.Message)
-			}
-		})
-	}
-}
-
 // TestColdVocTable checks the table method where a module gives no βVoc:
 // NEC Table 690.7(A), −6 to −10 °C → 1.14 (from memory).
 func TestColdVocTable(t *testing.T) {
 	rules := defaultRulebook(t)
-	if got := rowFactor(rules.VocFactor.Rows, -7); got != 1.14 {
+	if got := RowFactor(rules.VocFactor.Rows, -7); got != 1.14 {
 		t.Errorf("factor at −7 °C = %v, want 1.14 (NEC Table 690.7(A), from memory)", got)
 	}
-	if got := rowFactor(rules.VocFactor.Rows, 22); got != 1.02 {
+	if got := RowFactor(rules.VocFactor.Rows, 22); got != 1.02 {
 		t.Errorf("factor at 22 °C = %v, want 1.02", got)
 	}
-	if got := rowFactor(rules.VocFactor.Rows, -45); got != 1.25 {
+	if got := RowFactor(rules.VocFactor.Rows, -45); got != 1.25 {
 		t.Errorf("factor below the table = %v, want its last row, 1.25", got)
-	}
-}
-
-// TestChargeRateBounds: lead-acid bulk charge at roughly 10–30 % of
-// capacity (common practice).
-func TestChargeRateBounds(t *testing.T) {
-	rules := defaultRulebook(t)
-	for _, tt := range []struct {
-		output string
-		want   result.Status
-	}{
-		{"5 A", result.Warn},  // 5 % of 100 Ah
-		{"20 A", result.Pass}, // 20 %
-		{"40 A", result.Fail}, // 40 %
-	} {
-		d := bankDesign(t, "flooded", "12 V", "100 Ah", 1, 0.5)
-		d.Controllers = map[string]schema.Controller{"c": {Part: schema.ControllerPart{Output: unit.Current{Quantity: q(t, tt.output, unit.DimCurrent)}}}}
-		var rep Report
-		ChargeRate.Run(&Input{Design: d, Rules: rules, Position: func(string) string { return "" }}, &rep)
-		if got := rep.Findings[0].Status; got != tt.want {
-			t.Errorf("%s into 100 Ah: %s, want %s (%s)", tt.output, got, tt.want, rep.Findings[0].Message)
-		}
 	}
 }
 
@@ -363,4 +287,24 @@ func TestClearSkyBound(t *testing.T) {
 			}
 		}
 	}
+}
+
+var defaultRulebookOnce = sync.OnceValues(func() (schema.Rulebook, error) {
+	var r schema.Rulebook
+	v, err := schema.Build(cuecontext.New())
+	if err != nil {
+		return r, err
+	}
+	err = v.LookupPath(schema.DefaultPath).Decode(&r)
+	return r, err
+})
+
+// defaultRulebook is ampwright's built-in rulebook, decoded from the schema.
+func defaultRulebook(t *testing.T) schema.Rulebook {
+	t.Helper()
+	r, err := defaultRulebookOnce()
+	if err != nil {
+		t.Fatalf("default rulebook: %v", err)
+	}
+	return r
 }

@@ -1,9 +1,10 @@
-package checks
+package energy
 
 import (
 	"math"
 	"time"
 
+	"github.com/ampwright/ampwright/model"
 	"github.com/ampwright/ampwright/schema"
 )
 
@@ -103,23 +104,29 @@ func Simulate(hours []Hour, stored, floor float64, ch Chemistry) Sim {
 	return s
 }
 
-// VoyageHours lays out the design voyage hour by hour from the 1st of its
-// starting month: each leg's scenario, its loads at their mean power over
-// the scenario's period, the arrays' mean day of the month, and the other
-// chargers while they run (from 08:00 each day).
-func VoyageHours(in *Input, harvest []ArrayHarvest) []Hour {
-	d := in.Design
+// VoyageHours lays out the design voyage hour by hour for bank b, from
+// the 1st of its starting month: each leg's scenario, the bank's loads at
+// their mean power over the scenario's period, the mean day of the month
+// of the arrays whose controllers charge the bank, and the bank's other
+// sources while they run (from 08:00 each day). A link into the bank (a
+// DC-DC charger, a combiner, an isolator) passes charge while a charger of
+// its other bank runs: that charger's output up to the link's current.
+func VoyageHours(sys *model.System, b *model.Bank, budget []ScenarioEnergy, harvest []ArrayHarvest) []Hour {
+	d := sys.Design
 	if d.Voyage == nil {
 		return nil
 	}
-	budget := map[string]ScenarioEnergy{}
-	for _, se := range in.Budget() {
-		budget[se.Name] = se
+	byName := map[string]ScenarioEnergy{}
+	for _, se := range budget {
+		byName[se.Name] = se
 	}
 	solarByMonth := map[int][24]float64{}
 	for _, ah := range harvest {
+		if ah.Bank != b {
+			continue
+		}
 		for _, am := range ah.Months {
-			mi := monthIndex(am.Month)
+			mi := MonthIndex(am.Month)
 			p := solarByMonth[mi]
 			for h := range p {
 				p[h] += am.Hourly[h]
@@ -127,22 +134,32 @@ func VoyageHours(in *Input, harvest []ArrayHarvest) []Hour {
 			solarByMonth[mi] = p
 		}
 	}
-	vcharge := chargeVoltage(d, in.Rules)
-	start := time.Date(2025, time.Month(monthIndex(d.Voyage.Start)+1), 1, 0, 0, 0, 0, time.UTC)
+	vcharge := ChargeVoltage(b, sys.Rules)
+	start := time.Date(2025, time.Month(MonthIndex(d.Voyage.Start)+1), 1, 0, 0, 0, 0, time.UTC)
 	var out []Hour
 	for _, leg := range d.Voyage.Legs {
-		se := budget[leg.Scenario]
+		se := byName[leg.Scenario]
 		sc := d.Scenarios[leg.Scenario]
 		load := 0.0
 		if se.Hours > 0 {
 			load = se.Wh / se.Hours
 		}
-		var chargerHours []float64 // per charger, hours per day
-		var chargerW []float64
-		for _, cn := range schema.Names(d.Chargers) {
-			c := d.Chargers[cn]
-			chargerHours = append(chargerHours, c.ChargeHours(leg.Scenario, sc)*24/sc.Hours)
-			chargerW = append(chargerW, c.Output.Amps()*vcharge)
+		own := chargersOf(b, leg.Scenario, sc)
+		var links []linkFeed
+		for _, l := range sys.Links {
+			other := l.From
+			switch {
+			case l.To == b:
+			case l.From == b && l.Spec.Part.Kind == "combiner":
+				other = l.To
+			default:
+				continue
+			}
+			cap, _ := sys.LinkCurrent(l)
+			if l.Spec.Part.Kind != "dc-dc" {
+				cap = math.Min(cap, l.Spec.Part.Rating.Amps())
+			}
+			links = append(links, linkFeed{cap: cap, from: chargersOf(other, leg.Scenario, sc)})
 		}
 		n := int(math.Round(leg.Days * 24))
 		for i := 0; i < n; i++ {
@@ -150,14 +167,15 @@ func VoyageHours(in *Input, harvest []ArrayHarvest) []Hour {
 			hod := t.Hour()
 			h := Hour{Scenario: leg.Scenario, Month: int(t.Month()) - 1, Load: load}
 			h.Solar = solarByMonth[h.Month][hod]
-			for k, ch := range chargerHours {
-				// The charger runs from 08:00 for its hours a day; a part hour
-				// at the end counts pro rata.
-				on := math.Min(1, math.Max(0, ch-float64(hod-8)))
-				if hod < 8 {
-					on = 0
+			for _, c := range own {
+				h.Charger += c.amps * vcharge * c.on(hod)
+			}
+			for _, lf := range links {
+				var i float64
+				for _, c := range lf.from {
+					i += c.amps * c.on(hod)
 				}
-				h.Charger += chargerW[k] * on
+				h.Charger += math.Min(i, lf.cap) * vcharge
 			}
 			out = append(out, h)
 		}
@@ -165,19 +183,67 @@ func VoyageHours(in *Input, harvest []ArrayHarvest) []Hour {
 	return out
 }
 
-// chemistry is the simulation's view of the design's bank.
-func chemistry(d *schema.Design, rules schema.Rulebook) Chemistry {
+// charging is a charge source of a bank in one scenario: its current and
+// its hours a day.
+type charging struct {
+	amps, hoursPerDay float64
+}
+
+// on is the fraction of hour hod (0–23) the source runs: from 08:00 for
+// its hours a day; a part hour at the end counts pro rata.
+func (c charging) on(hod int) float64 {
+	if hod < 8 {
+		return 0
+	}
+	return math.Min(1, math.Max(0, c.hoursPerDay-float64(hod-8)))
+}
+
+type linkFeed struct {
+	cap  float64
+	from []charging
+}
+
+// chargersOf lists bank b's chargers and inverter-chargers in scenario sn,
+// by name.
+func chargersOf(b *model.Bank, sn string, sc schema.Scenario) []charging {
+	var out []charging
+	for _, src := range b.Sources {
+		var h float64
+		switch {
+		case src.Charger != nil:
+			h = src.Charger.ChargeHours(sn, sc)
+		case src.Inverter != nil:
+			if c := src.Inverter.Spec.Charging; c != nil {
+				if given, ok := c.Hours[sn]; ok {
+					h = given
+					break
+				}
+			}
+			if sc.ShorePower {
+				h = sc.Hours
+			}
+		default:
+			continue // solar, from the harvest
+		}
+		out = append(out, charging{amps: src.Output, hoursPerDay: h * 24 / sc.Hours})
+	}
+	return out
+}
+
+// BankChemistry is the simulation's view of bank b.
+func BankChemistry(b *model.Bank, rules schema.Rulebook) Chemistry {
+	spec := b.Spec
 	c := rules.Charging
-	ch := Chemistry{LeadAcid: d.Bank.Battery.LeadAcid(), TaperFrom: c.TaperFrom, TaperEnd: c.TaperEnd, MaxCharge: math.Inf(1)}
-	vcharge := chargeVoltage(d, rules)
-	capBank := d.Bank.Battery.Capacity.Ah() * float64(d.Bank.Parallel)
+	ch := Chemistry{LeadAcid: spec.Battery.LeadAcid(), TaperFrom: c.TaperFrom, TaperEnd: c.TaperEnd, MaxCharge: math.Inf(1)}
+	vcharge := ChargeVoltage(b, rules)
+	capBank := spec.Battery.Capacity.Ah() * float64(spec.Parallel)
 	if ch.LeadAcid {
 		ch.Efficiency = c.LeadAcidEfficiency
 		ch.MaxCharge = rules.ChargeRate.LeadAcidMax * capBank * vcharge
 	} else {
 		ch.Efficiency = c.LiFePO4Efficiency
-		if mc := d.Bank.Battery.MaxCharge; mc != nil {
-			ch.MaxCharge = mc.Amps() * float64(d.Bank.Parallel) * vcharge
+		if mc := spec.Battery.MaxCharge; mc != nil {
+			ch.MaxCharge = mc.Amps() * float64(spec.Parallel) * vcharge
 		}
 	}
 	return ch

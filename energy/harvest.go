@@ -1,11 +1,12 @@
-package checks
+package energy
 
 import (
 	"fmt"
 	"math"
 	"time"
 
-	"github.com/ampwright/ampwright/checks/solar"
+	"github.com/ampwright/ampwright/energy/solar"
+	"github.com/ampwright/ampwright/model"
 	"github.com/ampwright/ampwright/schema"
 )
 
@@ -17,8 +18,8 @@ var Months = []string{"Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "S
 // Beckman, Table 1.6.1; from memory).
 var meanDay = [12]int{17, 16, 16, 15, 15, 11, 17, 16, 15, 15, 14, 10}
 
-// monthIndex returns 0 for "Jan" … 11 for "Dec", or −1.
-func monthIndex(m string) int {
+// MonthIndex returns 0 for "Jan" … 11 for "Dec", or −1.
+func MonthIndex(m string) int {
 	for i, x := range Months {
 		if x == m {
 			return i
@@ -104,27 +105,19 @@ type ArrayMonth struct {
 type ArrayHarvest struct {
 	Name       string
 	Controller string
-	Kind       string // mppt or pwm
-	Months     []ArrayMonth
+	// Bank is the bank its controller charges.
+	Bank   *model.Bank
+	Kind   string // mppt or pwm
+	Months []ArrayMonth
 	// Losses are the derating fractions applied, for reports.
 	Losses string
 }
 
-// chargeVoltage is the bank's voltage while charging: the battery's
-// absorption voltage × series, else the rulebook's multiple of nominal.
-func chargeVoltage(d *schema.Design, rules schema.Rulebook) float64 {
-	b := d.Bank
-	if b.Battery.Absorption != nil {
-		return b.Battery.Absorption.Volts() * float64(b.Series)
-	}
-	return rules.Charging.ChargeVoltage * float64(b.Series) * b.Battery.Voltage.Volts()
-}
-
-// sandiaFor picks the Sandia module-temperature parameters for a module's
+// SandiaFor picks the Sandia module-temperature parameters for a module's
 // construction and its mounting: rail, arch, davit and bimini mounts are
 // open to the air behind, deck, coachroof and hardtop mounts close to a
 // surface; a flexible module glued down is insulated behind.
-func sandiaFor(construction, mount string) (solar.SandiaParams, string) {
+func SandiaFor(construction, mount string) (solar.SandiaParams, string) {
 	open := mount == "arch" || mount == "rail" || mount == "davits" || mount == "bimini"
 	switch {
 	case construction == "flexible":
@@ -148,23 +141,23 @@ func sandiaFor(construction, mount string) (solar.SandiaParams, string) {
 // tracks the array's maximum power at its efficiency, a PWM one holds the
 // array at the charging voltage. Output is clipped at the controller's
 // rated output.
-func Harvest(in *Input) []ArrayHarvest {
-	d := in.Design
+func Harvest(sys *model.System) []ArrayHarvest {
+	d := sys.Design
 	var out []ArrayHarvest
-	for _, name := range schema.Names(d.Arrays) {
-		a := d.Arrays[name]
-		ctrl := d.Controllers[a.Controller].Part
-		ah := ArrayHarvest{Name: name, Controller: a.Controller, Kind: ctrl.Kind}
+	for _, arr := range sys.Arrays {
+		name, a := arr.Name, *arr.Spec
+		ctrl := arr.Controller.Spec.Part
+		ah := ArrayHarvest{Name: name, Controller: a.Controller, Kind: ctrl.Kind, Bank: arr.Controller.Node.Bank}
 		loss := (1 - a.Shading) * (1 - a.Soiling) * (1 - a.Mismatch)
 		ah.Losses = fmt.Sprintf("shading %g, soiling %g, mismatch %g", a.Shading, a.Soiling, a.Mismatch)
-		pvDrop, chargeDrop := wiringLosses(in, name, a.Controller)
+		pvDrop, chargeDrop := wiringLosses(sys, name, a.Controller)
 		for _, m := range d.Site.Months {
-			mi := monthIndex(m)
+			mi := MonthIndex(m)
 			if mi < 0 {
 				continue
 			}
 			h := d.Site.Irradiation.Monthly[m].KWhPerM2Day()
-			mine, other := arrayDay(in, a, ctrl, mi, h, loss, pvDrop, chargeDrop)
+			mine, other := arrayDay(sys, ah.Bank, a, ctrl, mi, h, loss, pvDrop, chargeDrop)
 			mine.Month, mine.H = m, h
 			mine.AltWh = other.Wh
 			ah.Months = append(ah.Months, mine)
@@ -177,20 +170,16 @@ func Harvest(in *Input) []ArrayHarvest {
 // wiringLosses are the fractional voltage drops, at the array's rated
 // current, of the runs between the array and its controller and between
 // the controller and the bank.
-func wiringLosses(in *Input, array, controller string) (pv, charge float64) {
-	if in.Network == nil {
-		return 0, 0
-	}
-	for _, r := range in.Network.Runs {
+func wiringLosses(sys *model.System, array, controller string) (pv, charge float64) {
+	for _, r := range sys.Runs {
 		if r.DropCurrent <= 0 || r.DropVoltage <= 0 {
 			continue
 		}
-		m := measure(in, r, r.Spec.Size)
 		switch {
-		case r.Role == PV && (r.Down == array || r.Up == array):
-			pv += m.dropPct / 100
-		case r.Role == Charge && r.Down == controller:
-			charge += m.dropPct / 100
+		case r.Role == model.PV && (r.Down == array || r.Up == array):
+			pv += sys.RunDrop(r, r.Spec.Size).Pct / 100
+		case r.Role == model.Charge && r.Down == controller:
+			charge += sys.RunDrop(r, r.Spec.Size).Pct / 100
 		}
 	}
 	return pv, charge
@@ -198,9 +187,8 @@ func wiringLosses(in *Input, array, controller string) (pv, charge float64) {
 
 // arrayDay models one mean day, for the array's own controller and for the
 // other kind.
-func arrayDay(in *Input, a schema.Array, ctrl schema.ControllerPart, month int, h, loss, pvDrop, chargeDrop float64) (mine, other ArrayMonth) {
-	d := in.Design
-	site := d.Site
+func arrayDay(sys *model.System, bank *model.Bank, a schema.Array, ctrl schema.ControllerPart, month int, h, loss, pvDrop, chargeDrop float64) (mine, other ArrayMonth) {
+	site := sys.Design.Site
 	date := meanDate(month)
 	doy := solar.DayOfYear(date)
 	decl := solar.DeclinationCooper(doy)
@@ -209,7 +197,7 @@ func arrayDay(in *Input, a schema.Array, ctrl schema.ControllerPart, month int, 
 	if t, ok := site.DayAmbient[Months[month]]; ok {
 		ambient = t.Celsius()
 	}
-	vcharge := chargeVoltage(d, in.Rules)
+	vcharge := ChargeVoltage(bank, sys.Rules)
 	mod := a.Module
 	n := float64(a.Series * a.Strings)
 	pstc := mod.Pmax.Watts() * n
@@ -218,7 +206,7 @@ func arrayDay(in *Input, a schema.Array, ctrl schema.ControllerPart, month int, 
 	if mod.AlphaIsc != nil {
 		alpha = mod.AlphaIsc.PerKelvin()
 	}
-	sandia, _ := sandiaFor(mod.Construction, a.Mount)
+	sandia, _ := SandiaFor(mod.Construction, a.Mount)
 	limit := ctrl.Output.Amps() * vcharge
 	var poa float64
 	for hour := 0; hour < 24; hour++ {
