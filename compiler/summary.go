@@ -124,7 +124,7 @@ func (d *Design) Result() *result.Result {
 			Controller: a.Spec.Controller, ControllerKind: a.Controller.Spec.Part.Kind,
 		})
 	}
-	for _, run := range sys.Runs {
+	for _, run := range append(sys.Runs[:len(sys.Runs):len(sys.Runs)], sys.Returns...) {
 		c := run.Spec
 		line := result.CircuitLine{Name: run.Name, From: c.From, To: c.To, Length: c.Length.Text, Size: c.Size.Text}
 		if c.Protection != nil {

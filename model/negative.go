@@ -251,7 +251,7 @@ func (b *builder) returnCurrents() {
 		if r.Role == Charge {
 			m = charge
 		}
-		for _, n := range pathToPost(r.Ret.Lands, r.Bank) {
+		for _, n := range pathBetween(r.Ret.Lands, s.returnTarget(r)) {
 			add(m, n, r)
 		}
 	}
@@ -270,10 +270,25 @@ func (b *builder) returnCurrents() {
 	sort.SliceStable(s.Returns, func(i, j int) bool { return s.Returns[i].Name < s.Returns[j].Name })
 }
 
-// pathToPost is the negative conductors from node n to bank bk's negative
-// post: up the tree to the common ancestor of the two, then down to the
-// post.
-func pathToPost(n *Node, bk *Bank) []*Run {
+// returnTarget is where run r's return current goes back to its source:
+// its bank's negative post, or, beyond a converter, where the converter's
+// own return lands (a converter's output current returns to the converter,
+// and only its input current to the bank).
+func (s *System) returnTarget(r *Run) *Node {
+	for n := r.UpNode; n != nil && n.In != nil; n = n.In.UpNode {
+		if n.Kind == KindConverter {
+			if t, ok := s.Landing(n.In); ok {
+				return t
+			}
+			break
+		}
+	}
+	return r.Bank.Negative
+}
+
+// pathBetween is the negative conductors from node a to node b: up the
+// tree from a to the common ancestor of the two, then down to b.
+func pathBetween(a, b *Node) []*Run {
 	up := func(x *Node) []*Run {
 		var out []*Run
 		for ; x != nil && x.In != nil; x = x.In.UpNode {
@@ -281,12 +296,12 @@ func pathToPost(n *Node, bk *Bank) []*Run {
 		}
 		return out
 	}
-	a, c := up(n), up(bk.Negative)
+	pa, pb := up(a), up(b)
 	// Drop the conductors the two paths share, from the root down.
-	for len(a) > 0 && len(c) > 0 && a[len(a)-1] == c[len(c)-1] {
-		a, c = a[:len(a)-1], c[:len(c)-1]
+	for len(pa) > 0 && len(pb) > 0 && pa[len(pa)-1] == pb[len(pb)-1] {
+		pa, pb = pa[:len(pa)-1], pb[:len(pb)-1]
 	}
-	return append(a, c...)
+	return append(pa, pb...)
 }
 
 // ShuntCurrent is the current through shunt sh: the current of the
@@ -328,7 +343,7 @@ func (s *System) PassesShunt(r *Run, sh *Shunt) bool {
 	if lands == sh.Node {
 		return true
 	}
-	for _, n := range pathToPost(lands, r.Bank) {
+	for _, n := range pathBetween(lands, s.returnTarget(r)) {
 		if n.UpNode == sh.Node || n.DownNode == sh.Node {
 			return true
 		}

@@ -50,10 +50,16 @@ func FleetLineOf(path string, r *Result) FleetLine {
 	c := r.Count()
 	l := FleetLine{Path: path, Name: r.Design.Name, Hull: r.Design.Hull, Verdict: r.Verdict(), Fail: c.Fail, Warn: c.Warn, LowestSoC: -1}
 	l.Bank = r.Summary.Bank.Battery
+	primary := r.Summary.Bank.Name
+	if primary == "" {
+		primary = "bank"
+	}
 	for _, f := range r.Figures {
 		switch f.ID {
 		case FigBankNominalEnergy:
-			l.Bank = fmtBank(r.Summary.Bank, f.Value)
+			if f.Subject == primary {
+				l.Bank = fmtBank(r.Summary.Bank, f.Value)
+			}
 		case FigArraySTCPower:
 			l.Array += f.Value
 		}
