@@ -187,7 +187,7 @@ func negativeSide(t *testing.T) *schema.Design {
 			"panel": {Kind: "panel", Negative: "neg-main"},
 			"nav":   {Kind: "fuse-block", Negative: "neg-nav"},
 		},
-		Converters: map[string]schema.Converter{"conv": {Part: schema.ConverterPart{Output: "12 V", Rating: *amp(t, "20 A"), Efficiency: 0.9}}},
+		Converters:  map[string]schema.Converter{"conv": {Part: schema.ConverterPart{Output: "12 V", Rating: *amp(t, "20 A"), Efficiency: 0.9}}},
 		Controllers: map[string]schema.Controller{"mppt": {Part: schema.ControllerPart{Kind: "mppt", Output: *amp(t, "30 A")}}},
 		Loads: map[string]schema.Load{
 			"fridge": load(t, "panel-fridge", "4 A"),
