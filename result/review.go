@@ -118,10 +118,12 @@ type SharedChange struct {
 	// Changes are the values that differ, their paths relative to the
 	// part or table.
 	Changes []InputChange `json:"changes"`
-	// Hulls are the paths of the hulls that take the change, and
-	// Regressed those of them with a regression.
+	// Hulls are the paths of the hulls that take the change, Regressed
+	// those of them with a regression, and Margins those with a margin
+	// that shrank past the review threshold.
 	Hulls     []string `json:"hulls"`
 	Regressed []string `json:"regressed"`
+	Margins   []string `json:"margins"`
 }
 
 // key identifies a shared change across hulls: the same subject changed
@@ -138,8 +140,9 @@ func (s SharedChange) key() string {
 // CollectShared lists each shared change once with the hulls that take
 // it. taken gives, by hull path, the shared changes each hull takes
 // (Hulls and Regressed unset); hulls are the yard's deltas, for their
-// regressions. The changes with regressions come first, then those
-// reaching more hulls, then by subject.
+// regressions and margins. The changes with regressions come first, then
+// those with margins to review, then those reaching more hulls, then by
+// subject.
 func CollectShared(hulls []HullDelta, taken map[string][]SharedChange) []SharedChange {
 	byKey := map[string]*SharedChange{}
 	for i := range hulls {
@@ -148,12 +151,15 @@ func CollectShared(hulls []HullDelta, taken map[string][]SharedChange) []SharedC
 			k := s.key()
 			c, ok := byKey[k]
 			if !ok {
-				c = &SharedChange{Kind: s.Kind, Subject: s.Subject, Part: s.Part, Changes: s.Changes, Hulls: []string{}, Regressed: []string{}}
+				c = &SharedChange{Kind: s.Kind, Subject: s.Subject, Part: s.Part, Changes: s.Changes, Hulls: []string{}, Regressed: []string{}, Margins: []string{}}
 				byKey[k] = c
 			}
 			c.Hulls = append(c.Hulls, h.Path)
 			if h.Regressions() > 0 {
 				c.Regressed = append(c.Regressed, h.Path)
+			}
+			if len(h.Margins) > 0 {
+				c.Margins = append(c.Margins, h.Path)
 			}
 		}
 	}
@@ -161,12 +167,16 @@ func CollectShared(hulls []HullDelta, taken map[string][]SharedChange) []SharedC
 	for _, c := range byKey {
 		sort.Strings(c.Hulls)
 		sort.Strings(c.Regressed)
+		sort.Strings(c.Margins)
 		out = append(out, *c)
 	}
 	sort.Slice(out, func(i, j int) bool {
 		a, b := out[i], out[j]
 		if len(a.Regressed) != len(b.Regressed) {
 			return len(a.Regressed) > len(b.Regressed)
+		}
+		if len(a.Margins) != len(b.Margins) {
+			return len(a.Margins) > len(b.Margins)
 		}
 		if len(a.Hulls) != len(b.Hulls) {
 			return len(a.Hulls) > len(b.Hulls)
@@ -185,10 +195,11 @@ type MarginChange struct {
 	Subject string `json:"subject"`
 	Status  Status `json:"status"`
 	Unit    string `json:"unit"`
-	// OldValue and Value are the finding's value before and after, Limit
-	// its limit now, OldMargin and Margin its margin before and after.
+	// OldValue and Value are the finding's value before and after,
+	// OldLimit and Limit its limit, OldMargin and Margin its margin.
 	OldValue  float64 `json:"oldValue"`
 	Value     float64 `json:"value"`
+	OldLimit  float64 `json:"oldLimit"`
 	Limit     float64 `json:"limit"`
 	OldMargin float64 `json:"oldMargin"`
 	Margin    float64 `json:"margin"`
@@ -221,7 +232,7 @@ func ShrunkMargins(old, new *Result, shrink, near float64) []MarginChange {
 			continue
 		}
 		out = append(out, MarginChange{ID: f.ID, Subject: f.Subject, Status: f.Status, Unit: f.Unit,
-			OldValue: o.Value, Value: f.Value, Limit: f.Limit, OldMargin: o.Margin, Margin: f.Margin})
+			OldValue: o.Value, Value: f.Value, OldLimit: o.Limit, Limit: f.Limit, OldMargin: o.Margin, Margin: f.Margin})
 	}
 	sort.Slice(out, func(i, j int) bool {
 		if out[i].ID != out[j].ID {

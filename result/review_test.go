@@ -110,7 +110,8 @@ func TestCollectShared(t *testing.T) {
 	maxCharge := SharedChange{Kind: SharedPart, Subject: "battery tern", Part: "tern", Changes: []InputChange{{Path: "maxCharge", Old: `"50 A"`, New: `"30 A"`}}}
 	price := SharedChange{Kind: SharedPart, Subject: "terminal ring", Part: "ring", Changes: []InputChange{{Path: "price", Old: "1.2", New: "1.3"}}}
 	regressed := HullDelta{Path: "hulls/c", State: HullChanged, Findings: []StatusChange{{ID: "bank.chargeRate", Regression: true}}}
-	hulls := []HullDelta{{Path: "hulls/a", State: HullChanged}, {Path: "hulls/b", State: HullChanged}, regressed, {Path: "hulls/d", State: HullUnchanged}}
+	margin := HullDelta{Path: "hulls/b", State: HullChanged, Margins: []MarginChange{{ID: "protection.interrupting"}}}
+	hulls := []HullDelta{{Path: "hulls/a", State: HullChanged}, margin, regressed, {Path: "hulls/d", State: HullUnchanged}}
 	taken := map[string][]SharedChange{
 		"hulls/a": {maxCharge, price},
 		"hulls/b": {price},
@@ -124,8 +125,8 @@ func TestCollectShared(t *testing.T) {
 	if got[0].Subject != "battery tern" || !reflect.DeepEqual(got[0].Hulls, []string{"hulls/a", "hulls/c"}) || !reflect.DeepEqual(got[0].Regressed, []string{"hulls/c"}) {
 		t.Errorf("first = %+v, want battery tern reaching hulls/a and hulls/c, hulls/c regressed", got[0])
 	}
-	if got[1].Subject != "terminal ring" || len(got[1].Hulls) != 2 || len(got[1].Regressed) != 0 {
-		t.Errorf("second = %+v, want terminal ring reaching 2 hulls, none regressed", got[1])
+	if got[1].Subject != "terminal ring" || len(got[1].Hulls) != 2 || len(got[1].Regressed) != 0 || !reflect.DeepEqual(got[1].Margins, []string{"hulls/b"}) {
+		t.Errorf("second = %+v, want terminal ring reaching 2 hulls, none regressed, hulls/b with a margin", got[1])
 	}
 	// The same part changed two ways is two changes.
 	other := maxCharge
