@@ -103,7 +103,7 @@ func DiffText(w io.Writer, d *result.YardDelta) error {
 		}
 	}
 	for g := range o.groups {
-		if (g == groupMargins || g == groupOther) && len(o.groups[g]) > fullSections {
+		if len(o.groups[g]) > fullSections {
 			// Many hulls moved alike (a catalog change): a line each.
 			p.line("")
 			for _, h := range o.groups[g] {
@@ -212,11 +212,16 @@ func DiffMarkdown(w io.Writer, d *result.YardDelta, opts DiffMarkdownOptions) er
 	}
 
 	budget := opts.MaxBytes - head.Len() - tail.Len() - markdownReserve
-	body := o.markdownBody(d, budget, opts.MaxBytes <= 0, false)
+	// Too large for the bound, the hulls go one a row rather than one a
+	// section, so that all are named if that fits: first those with only
+	// a margin or other changes, then all. If even that is cut, the
+	// urgent hulls keep their sections and the rest is left out.
+	body := o.markdownBody(d, budget, opts.MaxBytes <= 0, rowsForMany)
+	for level := rowsForLesser; body.left() > 0 && level <= rowsForAll; level++ {
+		body = o.markdownBody(d, budget, false, level)
+	}
 	if body.left() > 0 {
-		// The hulls with only a margin or other changes go one a row
-		// rather than one a section, so that all are named if that fits.
-		body = o.markdownBody(d, budget, false, true)
+		body = o.markdownBody(d, budget, false, rowsForLesser)
 	}
 
 	var b strings.Builder
@@ -242,16 +247,21 @@ func DiffMarkdown(w io.Writer, d *result.YardDelta, opts DiffMarkdownOptions) er
 	return err
 }
 
-// fullSections is the most hulls of margins or other changes given a
-// section each; more (a catalog change reaching dozens of hulls) are one
-// row each, so the comment stays one a reviewer reads in a minute.
+// fullSections is the most hulls of a group given a section each; more
+// (a catalog change reaching dozens of hulls) are one row each, so that
+// the comment stays one a reviewer reads in a minute.
 const fullSections = 10
 
+// How far a Markdown body puts hulls one a row rather than one a section.
+const (
+	rowsForMany   = iota // in a group of more than fullSections
+	rowsForLesser        // and in the groups of margins and other changes
+	rowsForAll           // in every group
+)
+
 // markdownBody renders the shared changes and the hulls' sections, most
-// urgent first, within budget bytes; with compact, or when there are more
-// than fullSections of them, the hulls of the last two groups (margins and
-// other changes) are one table row each.
-func (o reviewOrder) markdownBody(d *result.YardDelta, budget int, unbounded, compact bool) *boundedBody {
+// urgent first, within budget bytes, with hulls one a row as level says.
+func (o reviewOrder) markdownBody(d *result.YardDelta, budget int, unbounded bool, level int) *boundedBody {
 	body := &boundedBody{budget: budget, unbounded: unbounded}
 	if len(d.Shared) > 0 {
 		body.heading("\n#### Shared changes\n\n")
@@ -260,28 +270,44 @@ func (o reviewOrder) markdownBody(d *result.YardDelta, budget int, unbounded, co
 		}
 	}
 	for g := range o.groups {
-		if len(o.groups[g]) == 0 {
+		hs := o.groups[g]
+		if len(hs) == 0 {
 			continue
 		}
-		title := fmt.Sprintf("\n#### %s (%d)\n", groupTitles[g], len(o.groups[g]))
-		if (g == groupMargins || g == groupOther) && (compact || len(o.groups[g]) > fullSections) {
+		title := fmt.Sprintf("\n#### %s (%d)\n", groupTitles[g], len(hs))
+		rows := len(hs) > fullSections || level == rowsForAll || (level == rowsForLesser && g >= groupMargins)
+		if rows {
 			body.heading(title + "\n| hull | vessel | state | changes |\n| --- | --- | --- | --- |\n")
-			for _, h := range o.groups[g] {
+			for _, h := range hs {
 				body.add(fmt.Sprintf("| %s | %s | %s | %s |\n", md(h.Path), md(strings.TrimSpace(h.Name+" "+h.Hull)), h.State, md(changesText(h))), &body.leftHulls)
 			}
 			continue
 		}
 		body.heading(title)
-		for _, h := range o.groups[g] {
+		for _, h := range hs {
 			body.add(hullMarkdown(h, o.takes[h.Path]), &body.leftHulls)
 		}
 	}
 	return body
 }
 
-// changesText counts what changed of a hull, for a one-row summary.
+// changesText says what changed of a hull in one row: its first input
+// error, its regressions and fixes, its margins, and how many entries,
+// figures and parts changed.
 func changesText(h *result.HullDelta) string {
 	var parts []string
+	if len(h.Problems) > 0 {
+		t := problemText(h.Problems[0])
+		if n := len(h.Problems) - 1; n > 0 {
+			t += fmt.Sprintf(" (and %d more)", n)
+		}
+		parts = append(parts, t)
+	}
+	for _, f := range h.Findings {
+		if f.Regression || f.Fix {
+			parts = append(parts, fmt.Sprintf("%s %s %s %s → %s", changeWord(f), f.ID, f.Subject, orNone(f.Old), orNone(f.New)))
+		}
+	}
 	for _, m := range h.Margins {
 		parts = append(parts, fmt.Sprintf("margin of %s %s %s → %s", m.ID, m.Subject, numUnit(m.OldMargin, m.Unit), numUnit(m.Margin, m.Unit)))
 	}

@@ -137,6 +137,22 @@ func TestDiffMarkdownYardScale(t *testing.T) {
 			notExists: []string{"hulls/hull0001", "maxCharge 50 A → 30 A; 72 hulls use it, 3 regress: hulls/hull0005, hulls/hull0029, hulls/hull0053\n- battery"},
 		},
 		{
+			name: "many regressions are one row each",
+			d: yardDelta(200, func() map[int]result.HullDelta {
+				m := map[int]result.HullDelta{}
+				for i := 101; i <= 130; i++ {
+					m[i] = regressed()
+				}
+				return m
+			}()),
+			maxLines: 45,
+			contains: []string{
+				"#### Regressions (30)",
+				"| hulls/hull0101 | Hull 101 KQ-101 | changed | regression wiring.voltageDrop panel-pilot pass → fail, 1 entry, 1 figure |",
+				"170 hulls unchanged.",
+			},
+		},
+		{
 			name: "most urgent first",
 			d: yardDelta(6, map[int]result.HullDelta{
 				1: {State: result.HullChanged, Entries: []result.EntryChange{{Entry: "vessel", Change: result.EntryChanged, Inputs: []result.InputChange{{Path: "client", Old: `"A"`, New: `"B"`}}}}},
@@ -250,6 +266,26 @@ func TestDiffMarkdownBound(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestDiffMarkdownBoundRegressions: regressions whose sections together
+// exceed the bound are named one a row, none left out.
+func TestDiffMarkdownBoundRegressions(t *testing.T) {
+	change := map[int]result.HullDelta{}
+	for i := 1; i <= 5; i++ {
+		h := regressed()
+		for j := 0; j < 300; j++ {
+			h.Figures = append(h.Figures, result.FigureChange{ID: "wiring.voltageDrop", Subject: fmt.Sprintf("run-%d", j), Unit: "%", Old: 1, New: 1.5, Diff: 0.5, Percent: 50})
+		}
+		change[i] = h
+	}
+	out := markdown(t, yardDelta(5, change), DiffMarkdownOptions{MaxBytes: DefaultMaxBytes})
+	if hs := headings(out); len(hs) != 0 || strings.Contains(out, "Cut to fit") {
+		t.Errorf("%d sections, cut %v; want the five as rows, uncut", len(hs), strings.Contains(out, "Cut to fit"))
+	}
+	if n := strings.Count(out, "| regression wiring.voltageDrop panel-pilot pass → fail, 1 entry, 301 figures |"); n != 5 {
+		t.Errorf("%d rows, want 5:\n%s", n, out)
 	}
 }
 
