@@ -178,8 +178,8 @@ func tailLines(o reviewOrder) []string {
 // DiffMarkdownOptions bound the Markdown of a diff.
 type DiffMarkdownOptions struct {
 	// MaxBytes is the largest comment written, in bytes; 0 is no bound.
-	// Sections that do not fit are left out, least urgent first, and a
-	// notice says so.
+	// Over it, hulls go one a row rather than one a section, then the
+	// least urgent are left out, and a notice says so.
 	MaxBytes int
 	// FullJSON says where the whole diff is (a file or an artifact), for
 	// the notice; "" names the command that writes it.
@@ -238,8 +238,12 @@ func DiffMarkdown(w io.Writer, d *result.YardDelta, opts DiffMarkdownOptions) er
 		if body.leftShared > 0 {
 			what = append(what, countOf(body.leftShared, "shared change", "shared changes"))
 		}
-		fmt.Fprintf(&b, "\n> **Cut to fit %s** (`--%s`): %s not shown, the least urgent. The full diff, never cut, is %s.\n",
-			sizeText(opts.MaxBytes), "max-bytes", strings.Join(what, " and ")+map[bool]string{true: " is", false: " are"}[body.left() == 1], where)
+		verb := " are"
+		if body.left() == 1 {
+			verb = " is"
+		}
+		fmt.Fprintf(&b, "\n> **Cut to fit %s** (`--max-bytes`): %s not shown, the least urgent. The full diff, never cut, is %s.\n",
+			sizeText(opts.MaxBytes), strings.Join(what, " and ")+verb, where)
 	}
 	b.WriteString(body.String())
 	b.WriteString(tail.String())
