@@ -60,16 +60,17 @@ threshold (a warning, never a failure), and the rest; a hull's own changes
 one row an entry (a load, a run, the bank). Unchanged hulls are one count.
 The JSON is the whole diff.
 
-The Markdown fits a pull-request comment: at most --max-bytes (64 KiB),
-leaving out the least urgent sections with a notice that says so and where
-the full diff is. --json-out FILE writes the full JSON to FILE as well, from
+The Markdown fits a pull-request comment: at most --max-bytes (64 KiB).
+Over it, the hulls are named one a row, then the least urgent are left
+out, with a notice that says so and where the full diff is. --json-out FILE writes the full JSON to FILE as well, from
 the same run, for a CI job to keep as an artifact.
 
 --format hulls prints the paths of the changed and added hulls, one a
 line, for scripts (such as building a pack for each).
 
 Exit status: 0 no regression, 1 a regression (or, with --fail-on failing,
-any failing finding in a changed hull), 2 an error.`,
+any failing finding in a changed hull), 2 an error, or no hulls on either
+side.`,
 		Example: `  ampwright diff designs
   ampwright diff --base origin/main --format markdown designs >> "$GITHUB_STEP_SUMMARY"
   ampwright diff --base origin/main --format markdown --json-out diff.json designs > comment.md
