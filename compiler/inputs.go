@@ -1,6 +1,12 @@
 package compiler
 
-import "cuelang.org/go/cue"
+import (
+	"path"
+	"path/filepath"
+	"strings"
+
+	"cuelang.org/go/cue"
+)
 
 // Inputs returns every concrete value of the design, defaults included, by
 // CUE path, as CUE prints it: what a reviewer compares between revisions.
@@ -27,4 +33,53 @@ func (d *Design) Inputs() map[string]string {
 	}
 	walk(d.value)
 	return out
+}
+
+// Entry names the entry of the design that the input at p (a CUE path
+// as Inputs gives it) belongs to: a named entry of a collection
+// (loads.fridge, wiring."panel-pilot"), a table of the rulebook
+// (rules.voltageDrop), or else the path's first label (bank, vessel,
+// site). A diff shows one row an entry.
+func (d *Design) Entry(p string) string {
+	sels := cue.ParsePath(p).Selectors()
+	if len(sels) == 0 {
+		return p
+	}
+	if len(sels) >= 2 {
+		two := cue.MakePath(sels[:2]...).String()
+		if _, ok := d.pos[two]; ok || (sels[0].String() == "rules" && len(sels) > 2) {
+			return two
+		}
+	}
+	return cue.MakePath(sels[0]).String()
+}
+
+// WrittenInHull reports whether the value at p (a CUE path as Inputs
+// gives it) is written in the hull's own package files, rather than taken
+// from an import (a catalog part, the yard's rulebook) or a default of the
+// schema. It is false when the design has no value there.
+func (d *Design) WrittenInHull(p string) bool {
+	v := d.value.LookupPath(cue.ParsePath(p))
+	if !v.Exists() {
+		return false
+	}
+	pos := v.Pos()
+	if !pos.IsValid() {
+		return false
+	}
+	return filepath.Dir(pos.Filename()) == d.home()
+}
+
+// home is the hull's package directory as the positions of its files
+// name it: under the overlay root for a module read from a revision, the
+// absolute directory on disk otherwise.
+func (d *Design) home() string {
+	if strings.HasPrefix(d.Root, virtualBase) {
+		return d.Root + "/" + path.Clean(d.Dir)
+	}
+	abs, err := filepath.Abs(d.Dir)
+	if err != nil {
+		return d.Dir
+	}
+	return abs
 }

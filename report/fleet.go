@@ -9,18 +9,20 @@ import (
 	"github.com/ampwright/ampwright/result"
 )
 
-// FleetText writes one line per hull.
+// FleetText writes one line per hull: its verdict, the counts and IDs of
+// the checks that fail and warn, its cost, bank, array, worst voltage drop
+// and lowest state of charge.
 func FleetText(w io.Writer, f *result.Fleet) error {
 	p := &printer{w: w}
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "hull\tvessel\tverdict\tfail\twarn\tbank\tarray\tworst drop\tlowest SoC")
+	fmt.Fprintln(tw, "hull\tvessel\tverdict\tfail\twarn\tcost\tbank\tarray\tworst drop\tlowest SoC\tchecks")
 	for _, l := range f.Hulls {
 		if l.Broken() {
-			fmt.Fprintf(tw, "%s\t-\tERROR\t-\t-\t-\t-\t-\t-\n", l.Path)
+			fmt.Fprintf(tw, "%s%s\t-\tERROR\t-\t-\t-\t-\t-\t-\t-\t-\n", l.Path, changedMark(l))
 			continue
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%d\t%d\t%s\t%.0f W\t%s\t%s\n", l.Path, strings.TrimSpace(l.Name+" "+l.Hull), strings.ToUpper(string(l.Verdict)),
-			l.Fail, l.Warn, l.Bank, l.Array, dropText(l), socText(l))
+		fmt.Fprintf(tw, "%s%s\t%s\t%s\t%d\t%d\t%s\t%s\t%.0f W\t%s\t%s\t%s\n", l.Path, changedMark(l), strings.TrimSpace(l.Name+" "+l.Hull), strings.ToUpper(string(l.Verdict)),
+			l.Fail, l.Warn, fleetCost(l), l.Bank, l.Array, dropText(l), socText(l), orDash(checksText(l)))
 	}
 	if err := tw.Flush(); err != nil {
 		return err
@@ -46,17 +48,55 @@ func FleetMarkdown(w io.Writer, f *result.Fleet) error {
 	p.line("")
 	p.line("%s", md(fleetCounts(f)))
 	p.line("")
-	p.line("| hull | vessel | verdict | fail | warn | bank | array | worst drop | lowest SoC |")
-	p.line("| --- | --- | --- | ---: | ---: | --- | ---: | --- | ---: |")
+	p.line("| hull | vessel | verdict | fail | warn | failing and warning checks | cost | bank | array | worst drop | lowest SoC |")
+	p.line("| --- | --- | --- | ---: | ---: | --- | ---: | --- | ---: | --- | ---: |")
 	for _, l := range f.Hulls {
 		if l.Broken() {
-			p.line("| %s | | error: %s | | | | | | |", md(l.Path), md(problemText(l.Problems[0])))
+			p.line("| %s%s | | error: %s | | | | | | | | |", md(l.Path), changedWord(l), md(problemText(l.Problems[0])))
 			continue
 		}
-		p.line("| %s | %s | %s | %d | %d | %s | %.0f W | %s | %s |", md(l.Path), md(strings.TrimSpace(l.Name+" "+l.Hull)), l.Verdict,
-			l.Fail, l.Warn, md(l.Bank), l.Array, md(dropText(l)), socText(l))
+		p.line("| %s%s | %s | %s | %d | %d | %s | %s | %s | %.0f W | %s | %s |", md(l.Path), changedWord(l), md(strings.TrimSpace(l.Name+" "+l.Hull)), l.Verdict,
+			l.Fail, l.Warn, md(checksText(l)), md(fleetCost(l)), md(l.Bank), l.Array, md(dropText(l)), socText(l))
 	}
 	return p.err
+}
+
+// changedMark marks a hull whose inputs changed since the fleet's Since.
+func changedMark(l result.FleetLine) string {
+	if l.Changed {
+		return " *"
+	}
+	return ""
+}
+
+// changedWord is changedMark for Markdown, where a star is markup.
+func changedWord(l result.FleetLine) string {
+	if l.Changed {
+		return " (changed)"
+	}
+	return ""
+}
+
+// checksText names the checks that fail and warn on a hull.
+func checksText(l result.FleetLine) string {
+	var parts []string
+	if len(l.Failing) > 0 {
+		parts = append(parts, "fail: "+strings.Join(l.Failing, ", "))
+	}
+	if len(l.Warning) > 0 {
+		parts = append(parts, "warn: "+strings.Join(l.Warning, ", "))
+	}
+	return strings.Join(parts, "; ")
+}
+
+// fleetCost is a hull's bill of materials' total, marked incomplete when
+// a part has no price.
+func fleetCost(l result.FleetLine) string {
+	s := strings.TrimSpace(fmt.Sprintf("%.2f %s", l.Cost, l.Currency))
+	if !l.CostComplete {
+		s += " incomplete"
+	}
+	return s
 }
 
 func dropText(l result.FleetLine) string {
@@ -88,8 +128,20 @@ func fleetCounts(f *result.Fleet) string {
 		}
 	}
 	s := fmt.Sprintf("%d hulls: %d pass, %d warn, %d fail, %d broken", len(f.Hulls), pass, warn, fail, broken)
+	if f.Filter != "" {
+		s = fmt.Sprintf("%d of %d hulls (%s): %d pass, %d warn, %d fail, %d broken", len(f.Hulls), f.Of, f.Filter, pass, warn, fail, broken)
+	}
 	if f.Shard != "" {
 		s += " (shard " + f.Shard + ")"
+	}
+	if f.Since != "" {
+		n := 0
+		for _, l := range f.Hulls {
+			if l.Changed {
+				n++
+			}
+		}
+		s += fmt.Sprintf("; %d changed since %s", n, f.Since)
 	}
 	return s
 }

@@ -13,6 +13,10 @@ type YardDelta struct {
 	Hulls []HullDelta `json:"hulls"`
 	// Counts sums them up.
 	Counts DeltaCounts `json:"counts"`
+	// Shared are the changes hulls take from outside their own files (a
+	// catalog part, a table of the yard's rulebook), each listed once with
+	// the hulls it reaches.
+	Shared []SharedChange `json:"shared,omitempty"`
 }
 
 // DeltaCounts is the one-line summary of a YardDelta.
@@ -27,6 +31,9 @@ type DeltaCounts struct {
 	Fixes       int `json:"fixes"`
 	// Failing is the number of failing findings at the head.
 	Failing int `json:"failing"`
+	// Margins is the number of findings whose margin shrank past the
+	// rulebook's review threshold without their status changing.
+	Margins int `json:"margins"`
 }
 
 // The states of a hull between two revisions.
@@ -40,11 +47,18 @@ const (
 
 // HullDelta is what a change does to one hull.
 type HullDelta struct {
-	Path     string         `json:"path"`
-	Name     string         `json:"name,omitempty"`
-	Hull     string         `json:"hull,omitempty"`
-	State    string         `json:"state"`
-	Inputs   []InputChange  `json:"inputs,omitempty"`
+	Path   string        `json:"path"`
+	Name   string        `json:"name,omitempty"`
+	Hull   string        `json:"hull,omitempty"`
+	State  string        `json:"state"`
+	Inputs []InputChange `json:"inputs,omitempty"`
+	// Entries are the changes written in the hull's own files, grouped
+	// by the entry of the design they belong to; the changes it takes
+	// from a shared part or table are in the YardDelta's Shared.
+	Entries []EntryChange `json:"entries,omitempty"`
+	// Margins are the findings whose margin shrank past the rulebook's
+	// review threshold without their status changing.
+	Margins  []MarginChange `json:"margins,omitempty"`
 	Figures  []FigureChange `json:"figures,omitempty"`
 	Findings []StatusChange `json:"findings,omitempty"`
 	BOM      []BOMChange    `json:"bom,omitempty"`
@@ -257,9 +271,21 @@ func CompareInputs(old, new map[string]string) []InputChange {
 }
 
 // HasChanges reports whether anything of the hull differs: inputs,
-// figures, findings, parts, or input errors at the head.
+// figures, findings, margins, parts, or input errors at the head.
 func (d *HullDelta) HasChanges() bool {
-	return len(d.Inputs)+len(d.Figures)+len(d.Findings)+len(d.BOM)+len(d.Problems) > 0
+	return len(d.Inputs)+len(d.Figures)+len(d.Findings)+len(d.Margins)+len(d.BOM)+len(d.Problems) > 0
+}
+
+// HasEffect reports whether the change did more to the hull than alter
+// inputs it takes from a shared part or table: a figure, a finding, a
+// margin, a part or its cost moved, the hull's own files changed, or it
+// was added, removed or broken. A hull reached by a catalog change
+// without effect is counted under the change, not listed.
+func (d *HullDelta) HasEffect() bool {
+	if d.State != HullChanged {
+		return d.State != HullUnchanged
+	}
+	return len(d.Entries)+len(d.Figures)+len(d.Findings)+len(d.Margins)+len(d.BOM)+len(d.Problems) > 0
 }
 
 // Regressions counts the findings of d that got worse.

@@ -23,6 +23,7 @@ type Rulebook struct {
 	Charging         *ChargingRule     `json:"charging,omitempty"`
 	Sources          *SourcesRule      `json:"sources,omitempty"`
 	BOM              *BOMRule          `json:"bom,omitempty"`
+	Review           *ReviewRule       `json:"review,omitempty"`
 }
 
 // Sourced is where a rulebook table comes from.
@@ -178,6 +179,15 @@ type BOMRule struct {
 	Slack float64 `json:"slack"`
 }
 
+// ReviewRule is when a diff flags a finding whose margin shrank without
+// its status changing: the margin lost at least Shrink of what it was
+// (a fraction) and is now below Near × the limit.
+type ReviewRule struct {
+	Sourced
+	Shrink float64 `json:"shrink"`
+	Near   float64 `json:"near"`
+}
+
 // Over returns r with every table that o gives replaced by o's, and o's
 // name and edition when it gives them: a yard's rulebook may override the
 // default one table at a time.
@@ -206,6 +216,7 @@ func (r Rulebook) Over(o *Rulebook) Rulebook {
 	pick(&r.CapacityTemp, o.CapacityTemp)
 	pick(&r.Charging, o.Charging)
 	pick(&r.Sources, o.Sources)
+	pick(&r.Review, o.Review)
 	return r
 }
 

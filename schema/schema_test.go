@@ -49,6 +49,14 @@ func TestBuild(t *testing.T) {
 	if got := r.Protection.Within.Metres(); got != 7*0.0254 {
 		t.Errorf("protection.within = %v m, want 0.1778 (33 CFR 183.455: 7 in)", got)
 	}
+	// The diff's margin threshold is a rule of thumb, and says so.
+	if r.Review == nil || r.Review.Shrink != 0.5 || r.Review.Near != 0.5 || r.Review.Status != "common-practice" {
+		t.Errorf("default review table = %+v, want shrink 0.5, near 0.5, status common-practice", r.Review)
+	}
+	over := r.Over(&Rulebook{Review: &ReviewRule{Shrink: 0.3, Near: 1}})
+	if over.Review.Shrink != 0.3 || r.Review.Shrink != 0.5 {
+		t.Errorf("a yard's review table does not replace the default's: got %v over %v", over.Review.Shrink, r.Review.Shrink)
+	}
 }
 
 // TestQuantityAttributes checks every field that uses a quantity pattern

@@ -71,6 +71,7 @@ func DiffYard(base, head Side) (*result.YardDelta, error) {
 	}
 	yd := &result.YardDelta{Base: base.Name, Head: head.Name, Hulls: []result.HullDelta{}}
 	bq, hq := newQuickHasher(base), newQuickHasher(head)
+	taken := map[string][]result.SharedChange{}
 	for _, hull := range schema.Names(at) {
 		sides := at[hull]
 		var hd result.HullDelta
@@ -83,11 +84,14 @@ func DiffYard(base, head Side) (*result.YardDelta, error) {
 		case !sides[0]:
 			hd = headOnly(head, hull)
 		default:
-			hd = diffHull(base, head, hull, bq, hq)
+			hd, taken[hull] = diffHull(base, head, hull, bq, hq)
 		}
 		yd.Hulls = append(yd.Hulls, hd)
 	}
 	yd.Counts = countDelta(yd.Hulls)
+	if shared := result.CollectShared(yd.Hulls, taken); len(shared) > 0 {
+		yd.Shared = shared
+	}
 	return yd, nil
 }
 
@@ -104,31 +108,33 @@ func headOnly(head Side, hull string) result.HullDelta {
 	return hd
 }
 
-func diffHull(base, head Side, hull string, bq, hq *quickHasher) result.HullDelta {
+// diffHull compares one hull present on both sides, and returns with its
+// delta the shared changes (catalog parts, rulebook tables) it takes.
+func diffHull(base, head Side, hull string, bq, hq *quickHasher) (result.HullDelta, []result.SharedChange) {
 	bHash, bErr := bq.Hash(hull)
 	hHash, hErr := hq.Hash(hull)
 	if bErr == nil && hErr == nil && bHash == hHash {
-		return result.HullDelta{Path: hull, State: result.HullUnchanged}
+		return result.HullDelta{Path: hull, State: result.HullUnchanged}, nil
 	}
 	// The two sides compile at once, one a core, each listing its inputs.
 	type side struct {
-		r      *result.Result
-		inputs map[string]string
-		err    error
+		r   *result.Result
+		c   compiled
+		err error
 	}
 	run := func(s Side) side {
 		r, d, err := s.compile(hull)
 		if err != nil {
 			return side{err: err}
 		}
-		return side{r: r, inputs: d.Inputs()}
+		return side{r: r, c: compiled{d: d, inputs: d.Inputs()}}
 	}
 	bc := make(chan side, 1)
 	go func() { bc <- run(base) }()
 	h := run(head)
 	b := <-bc
 	if h.err != nil {
-		return broken(hull, h.err)
+		return broken(hull, h.err), nil
 	}
 	br := b.r
 	if b.err != nil {
@@ -138,13 +144,18 @@ func diffHull(base, head Side, hull string, bq, hq *quickHasher) result.HullDelt
 	}
 	delta := result.Compare(br, h.r)
 	delta.Path = hull
+	var shared []result.SharedChange
 	if b.err == nil {
-		delta.Inputs = result.CompareInputs(b.inputs, h.inputs)
+		delta.Inputs = result.CompareInputs(b.c.inputs, h.c.inputs)
+		delta.Entries, shared = splitInputs(delta.Inputs, b.c, h.c)
+		if rv := h.c.d.Rules.Review; rv != nil {
+			delta.Margins = result.ShrunkMargins(br, h.r, rv.Shrink, rv.Near)
+		}
 	}
 	if !delta.HasChanges() {
 		delta.State = result.HullUnchanged
 	}
-	return delta
+	return delta, shared
 }
 
 func broken(hull string, err error) result.HullDelta {
@@ -176,6 +187,7 @@ func countDelta(hs []result.HullDelta) result.DeltaCounts {
 		}
 		c.Regressions += h.Regressions()
 		c.Fixes += h.Fixes()
+		c.Margins += len(h.Margins)
 		for _, f := range h.Findings {
 			if f.New == result.Fail {
 				c.Failing++

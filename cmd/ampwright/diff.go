@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"fmt"
 	"io"
 	"os"
@@ -14,13 +15,21 @@ import (
 )
 
 const (
-	flagBase   = "base"
-	flagHead   = "head"
-	flagFailOn = "fail-on"
+	flagBase     = "base"
+	flagHead     = "head"
+	flagFailOn   = "fail-on"
+	flagMaxBytes = "max-bytes"
+	flagJSONOut  = "json-out"
 )
+
+// minMaxBytes is the smallest --max-bytes: room for the heading, the
+// counts and the notice that sections were left out.
+const minMaxBytes = 4096
 
 type diffOptions struct {
 	base, head, format, failOn string
+	maxBytes                   int
+	jsonOut                    string
 	stdout                     io.Writer
 }
 
@@ -43,19 +52,37 @@ branch, or HEAD), read from git's objects without touching the work tree;
 the head is --head, or the work tree. Given two directories, diff compares
 them instead.
 
+The text and Markdown are a summary for the reviewer: the counts; each
+change to a shared catalog part or rulebook table once, with how many hulls
+use it and which regress; then the changed hulls, broken first, then those
+with a regression, a fix, a margin that shrank past the rulebook's review
+threshold (a warning, never a failure), and the rest; a hull's own changes
+one row an entry (a load, a run, the bank). Unchanged hulls are one count.
+The JSON is the whole diff.
+
+The Markdown fits a pull-request comment: at most --max-bytes (64 KiB).
+Over it, the hulls are named one a row, then the least urgent are left
+out, with a notice that says so and where the full diff is. --json-out FILE writes the full JSON to FILE as well, from
+the same run, for a CI job to keep as an artifact.
+
 --format hulls prints the paths of the changed and added hulls, one a
 line, for scripts (such as building a pack for each).
 
 Exit status: 0 no regression, 1 a regression (or, with --fail-on failing,
-any failing finding in a changed hull), 2 an error.`,
+any failing finding in a changed hull), 2 an error, or no hulls on either
+side.`,
 		Example: `  ampwright diff designs
   ampwright diff --base origin/main --format markdown designs >> "$GITHUB_STEP_SUMMARY"
+  ampwright diff --base origin/main --format markdown --json-out diff.json designs > comment.md
   ampwright diff --base v1.2 --head v1.3 designs
   ampwright diff old-yard new-yard`,
 		Args: cobra.MaximumNArgs(2),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if err := checkFormat(opts.format, "text", "markdown", "json", "hulls"); err != nil {
 				return err
+			}
+			if opts.maxBytes < minMaxBytes {
+				return usageError("--%s %d: expected at least %d", flagMaxBytes, opts.maxBytes, minMaxBytes)
 			}
 			switch opts.failOn {
 			case "regression", "failing", "never":
@@ -69,6 +96,9 @@ any failing finding in a changed hull), 2 an error.`,
 	c.Flags().StringVar(&opts.base, flagBase, "", "base revision (default: merge base with the default branch, or HEAD)")
 	c.Flags().StringVar(&opts.head, flagHead, "", "head revision (default: the work tree)")
 	c.Flags().StringVar(&opts.failOn, flagFailOn, "regression", "exit 1 on: regression|failing|never")
+	c.Flags().IntVar(&opts.maxBytes, flagMaxBytes, report.DefaultMaxBytes, "the largest Markdown written, in bytes; less urgent sections are left out")
+	c.Flags().StringVar(&opts.jsonOut, flagJSONOut, "", "also write the full diff as JSON to this file")
+	_ = c.MarkFlagFilename(flagJSONOut, "json")
 	formatFlag(c, &opts.format, "text", "markdown", "json", "hulls")
 	return c
 }
@@ -91,6 +121,10 @@ func runDiff(opts *diffOptions, args []string) error {
 		dir := "."
 		if len(args) == 1 {
 			dir = args[0]
+		}
+		// A mistyped yard must fail, not fall back to a module above it.
+		if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
+			return usageError("%s is not a directory", dir)
 		}
 		root, err := yardRoot(dir)
 		if err != nil {
@@ -119,11 +153,23 @@ func runDiff(opts *diffOptions, args []string) error {
 	if err != nil {
 		return &exitError{code: exitInput, err: err}
 	}
+	if len(d.Hulls) == 0 {
+		return &exitError{code: exitInput, err: fmt.Errorf("no hulls in %s nor in %s (a hull is a package with a top-level vessel field)", base.Name, head.Name)}
+	}
+	if opts.jsonOut != "" {
+		var b bytes.Buffer
+		if err := report.JSON(&b, d); err != nil {
+			return err
+		}
+		if err := writeFileAtomic(opts.jsonOut, b.Bytes()); err != nil {
+			return &exitError{code: exitInput, err: fmt.Errorf("cannot write %s: %v", opts.jsonOut, pathErr(err))}
+		}
+	}
 	switch opts.format {
 	case "json":
 		err = report.JSON(opts.stdout, d)
 	case "markdown":
-		err = report.DiffMarkdown(opts.stdout, d)
+		err = report.DiffMarkdown(opts.stdout, d, report.DiffMarkdownOptions{MaxBytes: opts.maxBytes, FullJSON: opts.jsonOut})
 	case "hulls":
 		for _, h := range d.Hulls {
 			if h.State == result.HullChanged || h.State == result.HullAdded {

@@ -76,14 +76,9 @@ func runPack(opts *packOptions, dir string) error {
 	if opts.out == "" {
 		return usageError("pack needs --%s FILE.pdf", flagOut)
 	}
-	var paper string
-	switch strings.ToLower(opts.paper) {
-	case "a4":
-		paper = "A4"
-	case "letter":
-		paper = "Letter"
-	default:
-		return usageError("--%s %q: expected a4|letter", flagPaper, opts.paper)
+	paper, err := paperSize(opts.paper)
+	if err != nil {
+		return err
 	}
 	date, err := sourceDateEpoch()
 	if err != nil {
@@ -116,6 +111,17 @@ func runPack(opts *packOptions, dir string) error {
 	}
 	fmt.Fprintf(opts.stdout, "wrote %s: %d checks pass, %d warn\n", opts.out, c.Pass, c.Warn)
 	return nil
+}
+
+// paperSize maps --paper to the pack's page size.
+func paperSize(s string) (string, error) {
+	switch strings.ToLower(s) {
+	case "a4":
+		return "A4", nil
+	case "letter":
+		return "Letter", nil
+	}
+	return "", usageError("--%s %q: expected a4|letter", flagPaper, s)
 }
 
 // failSummary says how many checks fail and which.

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"encoding/json"
 	"flag"
 	"fmt"
@@ -9,8 +10,10 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"unicode/utf16"
 
 	"github.com/rogpeppe/go-internal/testscript"
+	"rsc.io/pdf"
 )
 
 var updateScripts = flag.Bool("update", false, "rewrite the expected output in testscript files")
@@ -42,6 +45,7 @@ func TestScript(t *testing.T) {
 		},
 		Cmds: map[string]func(ts *testscript.TestScript, neg bool, args []string){
 			"jsonpath": cmdJSONPath,
+			"pdftext":  cmdPDFText,
 			"runsteps": cmdRunSteps,
 		},
 	})
@@ -157,4 +161,69 @@ func cmdRunSteps(ts *testscript.TestScript, neg bool, args []string) {
 	if err := os.WriteFile(ts.MkAbs(args[2]), []byte(script), 0o644); err != nil {
 		ts.Fatalf("%v", err)
 	}
+}
+
+// cmdPDFText writes the text a PDF shows, one line a page, to a file, so
+// that a script can grep a pack:
+//
+//	pdftext PDF OUT
+//
+// The pack's fonts are embedded UTF-8 fonts whose strings fpdf writes as
+// UTF-16BE; each string shown is one cell of text, joined by spaces.
+func cmdPDFText(ts *testscript.TestScript, neg bool, args []string) {
+	if neg || len(args) != 2 {
+		ts.Fatalf("usage: pdftext PDF OUT")
+	}
+	b := []byte(ts.ReadFile(args[0]))
+	r, err := pdf.NewReader(bytes.NewReader(b), int64(len(b)))
+	if err != nil {
+		ts.Fatalf("%s: not a PDF: %v", args[0], err)
+	}
+	var pages []string
+	for i := 1; i <= r.NumPage(); i++ {
+		var shown []string
+		show := func(v pdf.Value) {
+			if v.Kind() == pdf.String {
+				shown = append(shown, utf16be(v.RawString()))
+			}
+		}
+		contents := r.Page(i).V.Key("Contents")
+		streams := []pdf.Value{contents}
+		if contents.Kind() == pdf.Array {
+			streams = nil
+			for j := 0; j < contents.Len(); j++ {
+				streams = append(streams, contents.Index(j))
+			}
+		}
+		for _, st := range streams {
+			pdf.Interpret(st, func(stk *pdf.Stack, op string) {
+				n := stk.Len()
+				args := make([]pdf.Value, n)
+				for k := n - 1; k >= 0; k-- {
+					args[k] = stk.Pop()
+				}
+				switch {
+				case (op == "Tj" || op == "'") && n > 0:
+					show(args[n-1])
+				case op == "TJ" && n > 0 && args[n-1].Kind() == pdf.Array:
+					for k := 0; k < args[n-1].Len(); k++ {
+						show(args[n-1].Index(k))
+					}
+				}
+			})
+		}
+		pages = append(pages, strings.Join(strings.Fields(strings.Join(shown, " ")), " "))
+	}
+	if err := os.WriteFile(ts.MkAbs(args[1]), []byte(strings.Join(pages, "\n")+"\n"), 0o644); err != nil {
+		ts.Fatalf("%v", err)
+	}
+}
+
+// utf16be decodes a string of UTF-16BE code units.
+func utf16be(s string) string {
+	u := make([]uint16, 0, len(s)/2)
+	for i := 0; i+1 < len(s); i += 2 {
+		u = append(u, uint16(s[i])<<8|uint16(s[i+1]))
+	}
+	return string(utf16.Decode(u))
 }
