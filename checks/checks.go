@@ -85,6 +85,19 @@ var All = []*Check{
 	HotVmp,
 	InputCurrent,
 	VoyageFloor,
+	InverterContinuous,
+	InverterSurge,
+	InverterDC,
+	ProtectionSurge,
+	VoltageRating,
+	BusCurrent,
+	BusWays,
+	BankDischarge,
+	BankPeak,
+	TotalDrop,
+	ShuntPlacement,
+	ChargePath,
+	LinkCurrent,
 }
 
 // Lookup returns the check with the given ID.

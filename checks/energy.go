@@ -133,6 +133,14 @@ func chargeRate(in *Input, b *model.Bank, out *Report) {
 		f.Source = sourced(cr.Sourced)
 		f.Message = fmt.Sprintf("%s from %s ÷ %g Ah = %.1f %% of C; bounds %g–%g %%", amps(ic), from, capBank, frac*100, cr.LeadAcidMin*100, cr.LeadAcidMax*100)
 		switch {
+		case spec.Battery.MaxCharge != nil && ic > spec.Battery.MaxCharge.Amps()*float64(spec.Parallel)+1e-9:
+			// The maker's maximum binds before the rule of thumb's.
+			lim := spec.Battery.MaxCharge.Amps() * float64(spec.Parallel)
+			f.Status = result.Fail
+			f.Value, f.Limit, f.Unit, f.Margin = round(ic, 2), lim, "A", round(lim-ic, 2)
+			f.Source = "catalog data for " + spec.Battery.ID
+			f.Message = fmt.Sprintf("%s from %s against the maker's %d × %s = %s", amps(ic), from, spec.Parallel, spec.Battery.MaxCharge.Text, amps(lim))
+			f.Change = fmt.Sprintf("limit the charge current to %s", amps(lim))
 		case frac > cr.LeadAcidMax:
 			f.Status = result.Fail
 			f.Change = fmt.Sprintf("limit the charge current to %s", amps(cr.LeadAcidMax*capBank))
@@ -149,9 +157,15 @@ func chargeRate(in *Input, b *model.Bank, out *Report) {
 			f.Message = fmt.Sprintf("the catalog gives no maximum charge current for %s; check %s against its data", spec.Battery.ID, amps(ic))
 		} else {
 			lim := spec.Battery.MaxCharge.Amps() * float64(spec.Parallel)
-			f.Limit, f.Margin = lim, round(lim-ic, 2)
 			f.Message = fmt.Sprintf("%s from %s against %d × %s = %s", amps(ic), from, spec.Parallel, spec.Battery.MaxCharge.Text, amps(lim))
-			if ic > lim {
+			// At the bank's temperature a lithium cell accepts less.
+			if k, src := energy.ChargeFactor(spec.Battery, spec.Temperature.Celsius(), in.Rules); k < 1 {
+				lim *= k
+				f.Message += fmt.Sprintf(" × %g at %s = %s", k, spec.Temperature.Text, amps(lim))
+				f.Source += "; " + src
+			}
+			f.Limit, f.Margin = round(lim, 2), round(lim-ic, 2)
+			if ic > lim+1e-9 {
 				f.Status = result.Fail
 				f.Change = fmt.Sprintf("limit the charge current to %s", amps(lim))
 			}

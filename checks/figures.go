@@ -190,6 +190,15 @@ var Figures = []FigureDoc{
 	{result.FigReturnCurrent, "design current of a negative conductor", "The returns whose path to their bank's negative post passes it (see system.figures)."},
 	{result.FigShuntCurrent, "current through a battery monitor's shunt", "The current of the negative conductors on its bank side (see system.figures)."},
 	{result.FigSourceOutput, "the current a charger delivers", "Its output, or an alternator's rated output × its hot factor (see system.figures)."},
+	{result.FigInverterDemand, "the AC loads an inverter carries at once", "See inverter.continuous."},
+	{result.FigInverterPeak, "an inverter's largest start on top of its running loads", "See inverter.surge."},
+	{result.FigInverterDCCurrent, "an inverter's DC current at its low-voltage cut-off", "See inverter.dcCurrent."},
+	{result.FigSurgeCurrent, "the current through a device at the start it is nearest to opening on", "See protection.surge."},
+	{result.FigMaxVoltage, "the highest voltage a bank's side reaches", "See equipment.voltage."},
+	{result.FigBusCurrent, "the current through a bus, panel or switch", "See bus.current."},
+	{result.FigBankDischarge, "the current a bank gives to its loads running together", "See bank.discharge."},
+	{result.FigBankPeak, "a bank's largest current with a start on top of its running loads", "See bank.peak."},
+	{result.FigTotalDrop, "the voltage drop from the bank to a load and back", "See wiring.totalDrop."},
 }
 
 // LookupFigure returns the catalogue entry of a figure ID.

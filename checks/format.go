@@ -35,3 +35,7 @@ func lengthText(in *Input, metres float64) string {
 	}
 	return strconv.FormatFloat(round(metres, 3), 'f', -1, 64) + " m"
 }
+
+// fnum writes a figure rounded to two places, without trailing zeros or
+// floating-point noise.
+func fnum(v float64) string { return strconv.FormatFloat(round(v, 2), 'f', -1, 64) }

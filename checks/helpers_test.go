@@ -162,3 +162,9 @@ func oneRun(t *testing.T, s runSpec) (*Input, *model.Run) {
 	in := build(t, d)
 	return in, in.Sys.Run("run")
 }
+
+// usable is the bank model of the design's primary bank.
+func usable(t *testing.T, in *Input) energy.BankModel {
+	t.Helper()
+	return energy.Bank(in.Sys.Primary(), in.Rules)
+}

@@ -229,7 +229,9 @@ several thousand amperes, beyond a blade fuse's rating.`,
 			if fault > ir {
 				f.Status = result.Fail
 				f.Change = fmt.Sprintf("use a device rated to interrupt at least %s", amps(math.Ceil(fault/100)*100))
-				if main := mainDevice(r); r.UpNode.Kind != model.KindBank && (main == nil || main.Spec.Protection.Interrupting.Amps() < fault) {
+				// Advice never proposes what is fitted: a main fuse only
+				// where there is none between the bank and this device.
+				if r.UpNode.Kind != model.KindBank && mainDevice(r) == nil {
 					f.Change += fmt.Sprintf(", or fit a main fuse of that interrupting rating between the bank and %q", r.Up)
 				}
 			}

@@ -164,13 +164,16 @@ func TestBrackenwellWindlass(t *testing.T) {
 			fails = append(fails, f)
 		}
 	}
-	if len(fails) != 1 || fails[0].ID != "wiring.voltageDrop" {
-		var ids []string
-		for _, f := range fails {
-			ids = append(ids, string(f.ID))
-		}
-		t.Fatalf("windlass-run fails %q, want only wiring.voltageDrop", ids)
+	// The undersized run drops too much, and the 150 A fuse its windlass's
+	// start needs is more than it may carry: one fault, two findings.
+	var ids []string
+	for _, f := range fails {
+		ids = append(ids, string(f.ID))
 	}
+	if !reflect.DeepEqual(ids, []string{"protection.present", "wiring.voltageDrop"}) {
+		t.Fatalf("windlass-run fails %q, want protection.present and wiring.voltageDrop", ids)
+	}
+	fails = fails[1:]
 	f := fails[0]
 	if f.Value <= f.Limit || f.Limit != 10 {
 		t.Errorf("windlass-run drop %g %% against limit %g %%; want above the 10 %% for other circuits", f.Value, f.Limit)

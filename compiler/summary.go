@@ -160,6 +160,9 @@ func wiringTable(sys *model.System, r *result.Result) []result.WiringLine {
 			Class:  run.Class,
 			Status: status[run.Name],
 		}
+		if run.DropCurrent > 0 && math.Abs(run.DropCurrent-run.Current) > 1e-9 {
+			line.DropCurrent = round3(run.DropCurrent)
+		}
 		if run.DropCurrent > 0 {
 			line.Drop = roundTo(sys.RunDrop(run, run.Spec.Size).Pct, 3)
 			line.DropLimit = model.DropLimit(sys.Rules, run.Class)

@@ -92,6 +92,12 @@ func Bank(b *model.Bank, rules schema.Rulebook) BankModel {
 	m.Nominal = m.Voltage * m.Capacity
 	m.DoD, m.DoDSource = depthOfDischarge(b, rules)
 	m.TempFactor, m.TempSource = 1, "LiFePO4 capacity taken as rated (common practice)"
+	if !spec.Battery.LeadAcid() {
+		if f, src, ok := LithiumFactor(spec.Battery.CapacityByTemperature, rulesRows(rules, true), spec.Temperature.Celsius(), spec.Battery.ID, rules); ok {
+			m.TempFactor = math.Min(f, 1)
+			m.TempSource = fmt.Sprintf("%g at %s (%s)", m.TempFactor, spec.Temperature.Text, src)
+		}
+	}
 	if spec.Battery.LeadAcid() && rules.CapacityTemp != nil {
 		f := RowFactor(rules.CapacityTemp.Rows, spec.Temperature.Celsius())
 		m.TempFactor = 1 / math.Max(f, 1)
@@ -125,6 +131,41 @@ func depthOfDischarge(b *model.Bank, rules schema.Rulebook) (float64, string) {
 	r := rules.DepthOfDischarge
 	v := map[string]float64{"flooded": r.Flooded, "agm": r.AGM, "gel": r.Gel, "lifepo4": r.LiFePO4}[spec.Battery.Chemistry]
 	return v, Sourced(r.Sourced)
+}
+
+// LithiumFactor is a LiFePO4 battery's factor at cell temperature t from
+// its maker's table, else from the rulebook's, with where it came from;
+// false when there is neither.
+func LithiumFactor(own, rulebook []schema.VocRow, t float64, battery string, rules schema.Rulebook) (float64, string, bool) {
+	switch {
+	case len(own) > 0:
+		return RowFactor(own, t), "catalog data for " + battery, true
+	case len(rulebook) > 0 && rules.Lithium != nil:
+		return RowFactor(rulebook, t), Sourced(rules.Lithium.Sourced), true
+	}
+	return 1, "", false
+}
+
+// rulesRows is the rulebook's LiFePO4 table of capacity (or, with
+// capacity false, of charge acceptance) by temperature.
+func rulesRows(rules schema.Rulebook, capacity bool) []schema.VocRow {
+	if rules.Lithium == nil {
+		return nil
+	}
+	if capacity {
+		return rules.Lithium.Capacity
+	}
+	return rules.Lithium.Charge
+}
+
+// ChargeFactor is the fraction of a LiFePO4 battery's maximum charge
+// current it accepts at cell temperature t, and where that came from.
+func ChargeFactor(b schema.Battery, t float64, rules schema.Rulebook) (float64, string) {
+	f, src, ok := LithiumFactor(b.ChargeByTemperature, rulesRows(rules, false), t, b.ID, rules)
+	if !ok {
+		return 1, ""
+	}
+	return f, src
 }
 
 // RowFactor is the factor of the first row, in the order given (warmest

@@ -308,7 +308,7 @@ func (b *builder) attach() {
 			if inv := inverters[l.Spec.Inverter]; inv != nil {
 				l.Inverter = inv
 				inv.Loads = append(inv.Loads, l)
-				l.Bank = inv.Node.Bank
+				l.Bank, l.Volts = inv.Node.Bank, inv.Node.Volts
 			}
 			continue
 		}

@@ -215,7 +215,8 @@ type Load struct {
 	Circuit  *Run
 	Inverter *Inverter
 	Bank     *Bank
-	// Volts is the nominal voltage of a DC load's side.
+	// Volts is the nominal voltage of a DC load's side, or of the side of an
+	// AC load's inverter.
 	Volts float64
 	// Current is a DC load's full draw at Volts, all of them fitted.
 	Current float64

@@ -34,7 +34,7 @@ func (p *pack) wiring() {
 			{s: w.Role},
 			{s: strings.TrimSuffix(strings.TrimSuffix(p.lengthIn(w.Length), " m"), " ft")},
 			{s: w.Size},
-			{s: fixed(w.Current, 1)},
+			{s: currentText(w)},
 			p.dropCell(w, drop),
 			{s: limit},
 			p.ampacityCell(w),
@@ -49,9 +49,18 @@ func (p *pack) wiring() {
 		{head: "ampacity A", w: 14, align: "R"}, {head: "protection", w: 19}, {head: "status", w: 12},
 	}, rows, tableOpts{size: 7, title: "Wiring schedule", zebra: true})
 	d.y += 1
-	p.note(7, colMuted, "The status is the worst of the run's wiring and protection findings; a dash under protection means the run has no device of its own (it is protected upstream, or is a PV run checked at 1.56 × Isc). Currents are design currents: the loads fed at full draw, a source's maximum, PV at 1.56 × Isc.")
+	p.note(7, colMuted, "The status is the worst of the run's wiring and protection findings; a dash under protection means the run has no device of its own (it is protected upstream, or is a PV run checked at 1.56 × Isc). Currents are design currents: the loads fed at full draw, a source's maximum, PV at 1.56 × Isc; for a PV run the current its drop is taken at (its strings at maximum power, Imp × strings) follows the slash.")
 	d.y += 4
 	p.dropChart()
+}
+
+// currentText is a run's design current, and for a PV run the current its
+// drop is taken at after a slash.
+func currentText(w result.WiringLine) string {
+	if w.DropCurrent > 0 {
+		return fixed(w.Current, 1) + " / " + fixed(w.DropCurrent, 1)
+	}
+	return fixed(w.Current, 1)
 }
 
 // dropCell marks a drop over its limit.

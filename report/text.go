@@ -177,8 +177,14 @@ func Text(w io.Writer, r *result.Result) error {
 		if w.DropLimit > 0 {
 			drop, limit = fmt.Sprintf("%.2f %%", w.Drop), fmt.Sprintf("%g %%", w.DropLimit)
 		}
+		current := fmt.Sprintf("%.1f A", w.Current)
+		if w.DropCurrent > 0 {
+			// A solar run: ampacity at the strings' short-circuit factor,
+			// the drop at their maximum-power current.
+			current += fmt.Sprintf(" (drop at %.1f A)", w.DropCurrent)
+		}
 		t.row(w.Name, w.From+" → "+w.To, length(w.Length, imperial), w.Size,
-			fmt.Sprintf("%.1f A", w.Current), drop, limit, fmt.Sprintf("%.0f A", w.Ampacity), orDash(w.Protection), string(w.Status))
+			current, drop, limit, fmt.Sprintf("%.0f A", w.Ampacity), orDash(w.Protection), string(w.Status))
 	}
 	t.flush()
 

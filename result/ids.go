@@ -46,6 +46,19 @@ const (
 	CheckInputCurrent    CheckID = "pv.inputCurrent"
 	CheckVoyageFloor     CheckID = "voyage.floor"
 	CheckSystemFigures   CheckID = "system.figures"
+	CheckInverterLoad    CheckID = "inverter.continuous"
+	CheckInverterSurge   CheckID = "inverter.surge"
+	CheckInverterDC      CheckID = "inverter.dcCurrent"
+	CheckProtectionSurge CheckID = "protection.surge"
+	CheckVoltageRating   CheckID = "equipment.voltage"
+	CheckBusCurrent      CheckID = "bus.current"
+	CheckBusWays         CheckID = "bus.ways"
+	CheckBankDischarge   CheckID = "bank.discharge"
+	CheckBankPeak        CheckID = "bank.peak"
+	CheckTotalDrop       CheckID = "wiring.totalDrop"
+	CheckShunt           CheckID = "return.shunt"
+	CheckChargePath      CheckID = "source.limited"
+	CheckLinkCurrent     CheckID = "link.current"
 )
 
 // The figures.
@@ -71,4 +84,13 @@ const (
 	FigReturnCurrent      FigureID = "return.current"
 	FigShuntCurrent       FigureID = "return.shuntCurrent"
 	FigSourceOutput       FigureID = "source.output"
+	FigInverterDemand     FigureID = "inverter.demand"
+	FigInverterPeak       FigureID = "inverter.peak"
+	FigInverterDCCurrent  FigureID = "inverter.dcCurrent"
+	FigSurgeCurrent       FigureID = "protection.surgeCurrent"
+	FigMaxVoltage         FigureID = "equipment.maxVoltage"
+	FigBusCurrent         FigureID = "bus.current"
+	FigBankDischarge      FigureID = "bank.dischargeCurrent"
+	FigBankPeak           FigureID = "bank.peakCurrent"
+	FigTotalDrop          FigureID = "wiring.totalDrop"
 )

@@ -297,9 +297,13 @@ type WiringLine struct {
 	Length     float64 `json:"length"`
 	LengthText string  `json:"lengthText"`
 	Size       string  `json:"size"`
-	// Current is the design current, A, and CurrentBasis how it was found.
+	// Current is the design current, A, and CurrentBasis how it was found:
+	// the current the ampacity is checked against. DropCurrent is the
+	// current the drop is taken at where it differs: a solar run's strings
+	// at maximum power.
 	Current      float64 `json:"current"`
 	CurrentBasis string  `json:"currentBasis"`
+	DropCurrent  float64 `json:"dropCurrent,omitempty"`
 	Class        string  `json:"class"`
 	// Drop and DropLimit are percent of nominal voltage.
 	Drop      float64 `json:"drop"`

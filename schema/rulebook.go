@@ -24,6 +24,11 @@ type Rulebook struct {
 	Sources          *SourcesRule      `json:"sources,omitempty"`
 	BOM              *BOMRule          `json:"bom,omitempty"`
 	Review           *ReviewRule       `json:"review,omitempty"`
+	Surge            *SurgeRule        `json:"surge,omitempty"`
+	Inverter         *InverterRule     `json:"inverter,omitempty"`
+	Demand           *DemandRule       `json:"demand,omitempty"`
+	Shunt            *ShuntRule        `json:"shunt,omitempty"`
+	Lithium          *LithiumRule      `json:"lithium,omitempty"`
 }
 
 // Sourced is where a rulebook table comes from.
@@ -173,6 +178,45 @@ type SourcesRule struct {
 	AlternatorHotFactor float64 `json:"alternatorHotFactor"`
 }
 
+// CurvePoint is a point of a time-current curve: at Multiple × its
+// rating a device takes at least Seconds to open.
+type CurvePoint struct {
+	Multiple float64 `json:"multiple"`
+	Seconds  float64 `json:"seconds"`
+}
+
+// SurgeRule holds the default time-current curves by kind of device.
+type SurgeRule struct {
+	Sourced
+	Fuse    []CurvePoint `json:"fuse"`
+	Breaker []CurvePoint `json:"breaker"`
+}
+
+// InverterRule holds inverter defaults.
+type InverterRule struct {
+	Sourced
+	Cutoff float64 `json:"cutoff"`
+}
+
+// DemandRule is the demand factor of a feeder by the circuits it feeds.
+type DemandRule struct {
+	Sourced
+	Steps []BundleStep `json:"steps"`
+}
+
+// ShuntRule says which loads may return around a shunt.
+type ShuntRule struct {
+	Sourced
+	BypassKinds []string `json:"bypassKinds"`
+}
+
+// LithiumRule holds LiFePO4 defaults by cell temperature.
+type LithiumRule struct {
+	Sourced
+	Capacity []VocRow `json:"capacity"`
+	Charge   []VocRow `json:"charge"`
+}
+
 // BOMRule holds bill-of-materials allowances.
 type BOMRule struct {
 	Sourced
@@ -217,6 +261,11 @@ func (r Rulebook) Over(o *Rulebook) Rulebook {
 	pick(&r.Charging, o.Charging)
 	pick(&r.Sources, o.Sources)
 	pick(&r.Review, o.Review)
+	pick(&r.Surge, o.Surge)
+	pick(&r.Inverter, o.Inverter)
+	pick(&r.Demand, o.Demand)
+	pick(&r.Shunt, o.Shunt)
+	pick(&r.Lithium, o.Lithium)
 	return r
 }
 

@@ -139,17 +139,21 @@ func (w Window) Hours() float64 {
 
 // Load is one consumer.
 type Load struct {
-	Circuit  string             `json:"circuit,omitempty"`
-	Kind     string             `json:"kind"`
-	Current  *unit.Current      `json:"current,omitempty"`
-	Power    *unit.Power        `json:"power,omitempty"`
-	Duty     float64            `json:"duty"`
-	Hours    map[string]float64 `json:"hours"`
-	Class    string             `json:"class,omitempty"`
-	Surge    *unit.Current      `json:"surge,omitempty"`
-	Inverter string             `json:"inverter,omitempty"`
-	Quantity int                `json:"quantity"`
-	Windows  []Window           `json:"windows,omitempty"`
+	Circuit string             `json:"circuit,omitempty"`
+	Kind    string             `json:"kind"`
+	Current *unit.Current      `json:"current,omitempty"`
+	Power   *unit.Power        `json:"power,omitempty"`
+	Duty    float64            `json:"duty"`
+	Hours   map[string]float64 `json:"hours"`
+	Class   string             `json:"class,omitempty"`
+	Surge   *unit.Current      `json:"surge,omitempty"`
+	// SurgePower is an AC load's starting power; SurgeSeconds how long a
+	// start lasts.
+	SurgePower   *unit.Power `json:"surgePower,omitempty"`
+	SurgeSeconds float64     `json:"surgeSeconds"`
+	Inverter     string      `json:"inverter,omitempty"`
+	Quantity     int         `json:"quantity"`
+	Windows      []Window    `json:"windows,omitempty"`
 }
 
 // Inverter feeds AC loads.
@@ -327,6 +331,13 @@ type Battery struct {
 	ChargeLowLimit   *unit.Temperature `json:"chargeLowLimit,omitempty"`
 	Absorption       *unit.Voltage     `json:"absorption,omitempty"`
 	Float            *unit.Voltage     `json:"float,omitempty"`
+	MaxDischarge     *unit.Current     `json:"maxDischarge,omitempty"`
+	PeakDischarge    *unit.Current     `json:"peakDischarge,omitempty"`
+	PeakSeconds      float64           `json:"peakSeconds"`
+	// CapacityByTemperature and ChargeByTemperature are the maker's
+	// fractions of capacity and of maxCharge by cell temperature.
+	CapacityByTemperature []VocRow `json:"capacityByTemperature,omitempty"`
+	ChargeByTemperature   []VocRow `json:"chargeByTemperature,omitempty"`
 }
 
 // LeadAcid reports whether the battery is a lead-acid chemistry.
@@ -372,6 +383,8 @@ type InverterPart struct {
 	Efficiency float64     `json:"efficiency"`
 	Idle       unit.Power  `json:"idle"`
 	Systems    []string    `json:"systems,omitempty"`
+	// Cutoff is the low-voltage cut-off.
+	Cutoff *unit.Voltage `json:"cutoff,omitempty"`
 	// Charger and PassThrough describe an inverter-charger.
 	Charger     *unit.Current `json:"charger,omitempty"`
 	PassThrough *unit.Current `json:"passThrough,omitempty"`
@@ -437,6 +450,8 @@ type Protection struct {
 	Holder       *Part         `json:"holder,omitempty"`
 	Distance     *unit.Length  `json:"distance,omitempty"`
 	Sheathed     bool          `json:"sheathed"`
+	// Curve is the maker's time-current curve, if given.
+	Curve []CurvePoint `json:"curve,omitempty"`
 }
 
 // Cable is a cable family cut to length.

@@ -16,8 +16,8 @@ func smallCatalog(maxCharge string) string {
 
 currency: "GBP"
 battery: {
-	"tern-li100": {id: "tern-li100", chemistry: "lifepo4", voltage: "12 V", capacity: "100 Ah", resistance: "4 mΩ", maxCharge: "` + maxCharge + `", price: 600}
-	"tern-li200": {id: "tern-li200", chemistry: "lifepo4", voltage: "12 V", capacity: "200 Ah", resistance: "3 mΩ", maxCharge: "100 A", price: 1100}
+	"tern-li100": {id: "tern-li100", chemistry: "lifepo4", voltage: "12 V", capacity: "100 Ah", resistance: "4 mΩ", maxCharge: "` + maxCharge + `", maxDischarge: "100 A", price: 600}
+	"tern-li200": {id: "tern-li200", chemistry: "lifepo4", voltage: "12 V", capacity: "200 Ah", resistance: "3 mΩ", maxCharge: "100 A", maxDischarge: "150 A", price: 1100}
 }
 `
 }
@@ -51,16 +51,16 @@ scenarios: anchor: {}
 currency: catalog.currency
 bank: battery: catalog.battery.%[2]q
 loads: lamp: {circuit: "feed", power: %[3]q, hours: anchor: 4}
-wiring: feed: {from: "bank", to: "lamp", length: %[4]q, size: "14 AWG", protection: {id: "f15", kind: "fuse", rating: "15 A", interrupting: "5000 A", distance: "50 mm"}}
+wiring: feed: {from: "bank", to: "lamp", length: %[4]q, size: "14 AWG", protection: {id: "f15", kind: "fuse", rating: "15 A", interrupting: "5000 A", voltage: "32 V", distance: "50 mm"}}
 `, i, h.battery, h.lampPower, h.feedLength)
 	if h.charger {
 		b.WriteString(`chargers: shore: {kind: "shore", output: "40 A", hours: anchor: 2}
-wiring: "shore-run": {from: "bank", to: "shore", length: "2 m", size: "6 AWG", protection: {id: "f60", kind: "fuse", rating: "60 A", interrupting: "5000 A", distance: "50 mm"}}
+wiring: "shore-run": {from: "bank", to: "shore", length: "2 m", size: "6 AWG", protection: {id: "f60", kind: "fuse", rating: "60 A", interrupting: "5000 A", voltage: "32 V", distance: "50 mm"}}
 `)
 	}
 	if h.fridge {
 		b.WriteString(`loads: fridge: {circuit: "fridge-run", kind: "refrigeration", current: "4 A", duty: 0.4, hours: anchor: 24}
-wiring: "fridge-run": {from: "bank", to: "fridge", length: "3 m", size: "12 AWG", protection: {id: "f10", kind: "fuse", rating: "10 A", interrupting: "5000 A", distance: "50 mm"}}
+wiring: "fridge-run": {from: "bank", to: "fridge", length: "3 m", size: "12 AWG", protection: {id: "f10", kind: "fuse", rating: "10 A", interrupting: "5000 A", voltage: "32 V", distance: "50 mm"}}
 `)
 	}
 	return b.String()
@@ -161,7 +161,9 @@ func TestDiffOwnChanges(t *testing.T) {
 		// The larger bank raises the fault current at the lamp's fuse from
 		// 3210 to 4280 A, against its 5000 A interrupting rating.
 		{"hulls/h2", []string{"changed bank"}, 1},
-		{"hulls/h3", []string{"changed loads.lamp", "changed wiring.feed"}, 1},
+		// The lamp's own run is its whole way from the bank: its drop and
+		// its total drop shrink alike.
+		{"hulls/h3", []string{"changed loads.lamp", "changed wiring.feed"}, 2},
 		{"hulls/h4", nil, 0},
 	}
 	for _, tc := range tests {
@@ -181,10 +183,10 @@ func TestDiffOwnChanges(t *testing.T) {
 	if len(yd.Shared) != 0 {
 		t.Errorf("shared changes %+v, want none: every change is the hulls' own", yd.Shared)
 	}
-	if m := byPath["hulls/h3"].Margins; len(m) == 1 && (m[0].ID != "wiring.voltageDrop" || m[0].Status != result.Pass) {
-		t.Errorf("margin %+v, want a passing wiring.voltageDrop", m[0])
+	if m := byPath["hulls/h3"].Margins; len(m) == 2 && (m[0].ID != "wiring.totalDrop" || m[1].ID != "wiring.voltageDrop" || m[1].Status != result.Pass) {
+		t.Errorf("margins %+v, want passing wiring.totalDrop and wiring.voltageDrop", m)
 	}
-	if yd.Counts.Margins != 2 || yd.Counts.Regressions != 0 {
-		t.Errorf("counts %+v, want 2 margins and no regression", yd.Counts)
+	if yd.Counts.Margins != 3 || yd.Counts.Regressions != 0 {
+		t.Errorf("counts %+v, want 3 margins and no regression", yd.Counts)
 	}
 }
