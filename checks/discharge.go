@@ -75,14 +75,14 @@ no limit is a warning.`,
 					continue
 				}
 				f.Status = result.Warn
-				f.Message = fmt.Sprintf("%s together (%s at %02d:00); the catalog gives no maximum discharge current for %s", amps(tg.Value), tg.Scenario, tg.Hour, spec.ID)
+				f.Message = fmt.Sprintf("%s together (%s); the catalog gives no maximum discharge current for %s", amps(tg.Value), whenText(tg.Scenario, tg.Hour, tg.Loads), spec.ID)
 				f.Change = "give the battery management system's discharge limit in the catalog"
 				out.Add(f)
 				continue
 			}
 			lim := spec.MaxDischarge.Amps() * float64(b.Spec.Parallel)
 			f.Limit, f.Margin = lim, round(lim-tg.Value, 2)
-			f.Message = fmt.Sprintf("%s together (%s at %02d:00: %s) against %d × %s = %s", amps(tg.Value), tg.Scenario, tg.Hour, loadNames(tg.Loads), b.Spec.Parallel, spec.MaxDischarge.Text, amps(lim))
+			f.Message = fmt.Sprintf("%s together (%s: %s) against %d × %s = %s", amps(tg.Value), whenText(tg.Scenario, tg.Hour, tg.Loads), loadNames(tg.Loads), b.Spec.Parallel, spec.MaxDischarge.Text, amps(lim))
 			if tg.Value > lim+1e-9 {
 				f.Status = result.Fail
 				f.Change = "more batteries in parallel, a battery with a higher discharge limit, or time windows that keep these loads apart"

@@ -27,6 +27,17 @@ func acTogether(in *Input, inv *model.Inverter) energy.Together {
 	return energy.RunTogether(in.Sys, inv.Loads, energy.ACPower, inverting(in, inv))
 }
 
+// whenText says when loads run together: "anchor at 19:00", or "anchor,
+// any hour" when none of them has a time window to keep it apart.
+func whenText(scenario string, hour int, ls []*model.Load) string {
+	for _, l := range ls {
+		if len(l.Spec.Windows) > 0 {
+			return fmt.Sprintf("%s at %02d:00", scenario, hour)
+		}
+	}
+	return scenario + ", any hour"
+}
+
 func loadNames(ls []*model.Load) string {
 	var names []string
 	for _, l := range ls {
@@ -74,7 +85,7 @@ Limit: the inverter's continuous rating (maker's data).`,
 			f := result.Finding{
 				Subject: inv.Name, Value: round(tg.Value, 1), Limit: lim, Unit: "W", Margin: round(lim-tg.Value, 1),
 				Source: "catalog data for " + p.ID, Position: in.Position(inv.Path), Status: result.Pass,
-				Message: fmt.Sprintf("%s W together (%s at %02d:00: %s) against %s continuous", fnum(tg.Value), tg.Scenario, tg.Hour, loadNames(tg.Loads), p.Continuous.Text),
+				Message: fmt.Sprintf("%s W together (%s: %s) against %s continuous", fnum(tg.Value), whenText(tg.Scenario, tg.Hour, tg.Loads), loadNames(tg.Loads), p.Continuous.Text),
 			}
 			if tg.Value > lim+1e-9 {
 				f.Status = result.Fail
