@@ -89,9 +89,13 @@ func newDoc(paper string, date time.Time) (*doc, error) {
 		return nil, fmt.Errorf("page size %q: expected A4 or Letter", paper)
 	}
 	f := fpdf.NewCustom(&fpdf.InitType{OrientationStr: "P", UnitStr: "mm", Size: size})
-	f.AddUTF8FontFromBytes("go", "", goregular.TTF)
-	f.AddUTF8FontFromBytes("go", "B", gobold.TTF)
-	f.AddUTF8FontFromBytes("gomono", "", gomono.TTF)
+	// fpdf writes into the font bytes it is given while it subsets them:
+	// each document gets copies, so that the fonts' package variables
+	// stay as they are and the next document in the process comes out
+	// with the same bytes.
+	f.AddUTF8FontFromBytes("go", "", bytes.Clone(goregular.TTF))
+	f.AddUTF8FontFromBytes("go", "B", bytes.Clone(gobold.TTF))
+	f.AddUTF8FontFromBytes("gomono", "", bytes.Clone(gomono.TTF))
 	date = date.UTC()
 	f.SetCreationDate(date)
 	f.SetModificationDate(date)
