@@ -28,7 +28,7 @@ const (
 	maxInnerW = 40.0  // the widest line of the text under a node with children
 	maxRunW   = 44.0  // the widest line of a run's label
 	maxTitleW = 160.0 // the widest line of a tree's title
-	gapSib    = 1.8   // between the bands of sibling subtrees
+	gapSib    = 1.2   // between the bands of sibling subtrees
 	trunkPad  = 1.6   // from a column's widest text to its trunk
 	textPad   = 1.2   // between a symbol and its text
 	runPad    = 0.8   // between a run's line and its label
@@ -586,6 +586,10 @@ func (l *layout) sheets(dg *diagram, notes []string) []*sheet {
 		for n < len(rows) && y+h+rows[n].h <= l.h {
 			h += rows[n].h
 			n++
+		}
+		// The title goes with at least one row under it.
+		if n == 1 && len(rows) > 1 && rows[0].items == nil && rows[1].items != nil {
+			n = 0
 		}
 		if n == 0 && y > 0 {
 			newSheet()
