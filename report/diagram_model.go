@@ -132,7 +132,6 @@ type dtree struct {
 
 // diagram is a design's trees and notes, ready to lay out.
 type diagram struct {
-	m     *metrics
 	trees []*dtree
 	// loops are runs left out because they join two nodes already drawn.
 	loops []result.WiringLine
@@ -140,9 +139,9 @@ type diagram struct {
 	unplaced []result.LoadLine
 	// used are the symbols drawn, for the legend.
 	used map[symKind]bool
-	// runs is whether protective devices, failing runs, AC sides and
-	// charge runs are drawn, for the legend.
-	fuse, breaker, fail, warn, charge, acSide, negative bool
+	// Whether fuses, breakers, failing or warning runs, charging runs
+	// and AC sides are drawn, for the legend.
+	fuse, breaker, fail, warn, charge, acSide bool
 }
 
 // nodeKey names a node: its name and whether it is on the negative side,
@@ -182,7 +181,7 @@ type linkLeaf struct {
 
 // newDiagram builds the trees of r's one-line diagram.
 func newDiagram(r *result.Result, m *metrics) *diagram {
-	dg := &diagram{m: m, used: map[symKind]bool{}}
+	dg := &diagram{used: map[symKind]bool{}}
 	b := &builder{r: r, m: m, dg: dg, info: map[nodeKey]result.Node{}, adj: map[nodeKey][]int{},
 		used: make([]bool, len(r.Wiring)), seen: map[nodeKey]bool{}, loads: map[string][]result.LoadLine{},
 		ac: map[string][]result.LoadLine{}, placed: map[string]bool{}, returnsTo: map[string][]string{},
@@ -285,9 +284,6 @@ func (dg *diagram) note(n *dnode) {
 		if w.Role == "charge" || w.Role == "pv" {
 			dg.charge = true
 		}
-		if w.Role == "return" {
-			dg.negative = true
-		}
 	}
 	if n.ac {
 		dg.acSide = true
@@ -325,7 +321,7 @@ func (b *builder) legacyNodes() []nodeKey {
 // from the shortest way to the root. Links between banks and other banks
 // end a branch.
 func (b *builder) tree(root nodeKey) {
-	rn := b.node(root, nil, nil)
+	rn := b.node(root, nil)
 	t := &dtree{root: rn}
 	info := b.info[root]
 	switch {
@@ -369,7 +365,7 @@ func (b *builder) tree(root nodeKey) {
 			b.used[i] = true
 			inTree[ok] = true
 			b.seen[ok] = true
-			c := b.node(ok, w, n)
+			c := b.node(ok, w)
 			keys[c] = ok
 			n.children = append(n.children, c)
 			queue = append(queue, c)
@@ -420,8 +416,8 @@ func (b *builder) title(name, what string) []span {
 	return ss
 }
 
-// node makes the diagram node for k, reached over run w from parent.
-func (b *builder) node(k nodeKey, w *result.WiringLine, parent *dnode) *dnode {
+// node makes the diagram node for k, reached over run w.
+func (b *builder) node(k nodeKey, w *result.WiringLine) *dnode {
 	info := b.info[k]
 	n := &dnode{name: k.name, run: w, at: &mark{}}
 	n.sym = symbolOf(info, k.neg)
@@ -451,7 +447,7 @@ func (b *builder) node(k nodeKey, w *result.WiringLine, parent *dnode) *dnode {
 		}
 	case symConverter:
 		n.lines = append(n.lines, name...)
-		n.volts = converterVolts(info, b, k)
+		n.volts = b.converterVolts(k)
 	case symDCDC:
 		n.lines = append(n.lines, name...)
 		n.volts = [2]string{b.bankVolts(info.From), b.bankVolts(info.To)}
@@ -551,8 +547,8 @@ func symbolOf(n result.Node, neg bool) symKind {
 
 // converterVolts are a converter's input and output voltages: its own
 // side's, and that of the nodes it feeds.
-func converterVolts(info result.Node, b *builder, k nodeKey) [2]string {
-	in := info.Volts
+func (b *builder) converterVolts(k nodeKey) [2]string {
+	in := b.info[k].Volts
 	out := 0.0
 	for _, i := range b.adj[k] {
 		w := b.r.Wiring[i]
