@@ -418,13 +418,16 @@ func (l *layout) fitHeight(t *dtree, n *dnode, budget float64) (kept *dnode, res
 		return l.splitLines(t, n, budget)
 	}
 	refH := l.refHeight() + gapSib
-	c := n.clone()
-	c.children = nil
+	// upTo is the height of n with its children up to the i-th, read from
+	// the offsets measure set: a child's size does not depend on its
+	// siblings.
+	upTo := func(i int) float64 {
+		ch := n.children[i]
+		return math.Max(n.ownUp, n.children[0].up) + math.Max(n.ownDown, ch.dy+ch.down)
+	}
 	for i, ch := range n.children {
-		c.children = append(c.children, ch)
-		l.measure(c, n.depth)
 		more := i < len(n.children)-1
-		need := c.up + c.down
+		need := upTo(i)
 		if more {
 			need += refH
 		}
@@ -433,11 +436,10 @@ func (l *layout) fitHeight(t *dtree, n *dnode, budget float64) (kept *dnode, res
 		}
 		// ch does not fit whole: keep what of it fits, if that is worth
 		// it, and continue the rest of n's children.
-		c.children = c.children[:i]
-		l.measure(c, n.depth)
-		used := c.up + c.down
+		keep := append([]*dnode(nil), n.children[:i]...)
+		used := n.ownUp + n.ownDown
 		if i > 0 {
-			used += gapSib
+			used = upTo(i-1) + gapSib
 		}
 		room := budget - used
 		if more {
@@ -446,7 +448,7 @@ func (l *layout) fitHeight(t *dtree, n *dnode, budget float64) (kept *dnode, res
 		next := i
 		if room >= minSplitH/2 || i == 0 {
 			if k, r, ok := l.fitHeight(t, ch, room); ok {
-				c.children = append(c.children, k)
+				keep = append(keep, k)
 				rest = append(rest, r...)
 				next = i + 1
 			} else if i == 0 {
@@ -463,33 +465,46 @@ func (l *layout) fitHeight(t *dtree, n *dnode, budget float64) (kept *dnode, res
 			}
 			ref := &dnode{sym: symRef, at: &mark{},
 				lines: []tline{refLine(what+" continued on sheet "+sheetMark, cont.at)}}
-			c.children = append(c.children, ref)
+			keep = append(keep, ref)
 			rest = append(rest, l.continued(t, cont, ref.at))
 		}
+		c := n.clone()
+		c.children = keep
 		l.measure(c, n.depth)
 		return c, rest, true
 	}
-	return c, nil, true
+	return n, nil, true
 }
 
 // splitLines splits a leaf taller than budget (one circuit with a great
 // many loads, a negative bus with a great many returns) between its
-// lines as they are wrapped.
+// lines as they are wrapped: as many as fit stay.
 func (l *layout) splitLines(t *dtree, n *dnode, budget float64) (*dnode, []*dtree, bool) {
 	l.measure(n, n.depth)
 	lines := append([]tline(nil), n.text...)
-	for k := len(lines) - 1; k >= 1; k-- {
-		c := n.clone()
-		cont := n.clone()
+	split := func(k int) (*dnode, *dnode) {
+		c, cont := n.clone(), n.clone()
 		cont.at, cont.run, cont.runNote = &mark{}, nil, nil
 		cont.lines = lines[k:]
 		c.lines = append(append([]tline(nil), lines[:k]...), refLine("continued on sheet "+sheetMark, cont.at))
 		l.measure(c, n.depth)
-		if c.up+c.down <= budget {
-			return c, []*dtree{l.continued(t, cont, c.at)}, true
+		return c, cont
+	}
+	// The height grows with k: find the largest k that fits.
+	lo, hi := 0, len(lines)-1
+	for lo < hi {
+		mid := (lo + hi + 1) / 2
+		if c, _ := split(mid); c.up+c.down <= budget {
+			lo = mid
+		} else {
+			hi = mid - 1
 		}
 	}
-	return nil, nil, false
+	if lo == 0 {
+		return nil, nil, false
+	}
+	c, cont := split(lo)
+	return c, []*dtree{l.continued(t, cont, c.at)}, true
 }
 
 // refHeight is the height of a reference leaf.
