@@ -2,7 +2,9 @@ package report
 
 // pdf.go is the only file of package report that calls fpdf: a thin
 // drawing layer of text, wrapped and truncated lines, rules, boxes, lines,
-// polylines and tables whose header repeats on every page they run onto.
+// polylines, polygons, circles and tables whose header repeats on every
+// page they run onto. doc is also a canvas (canvas.go), for the one-line
+// diagram.
 // fpdf is archived upstream; keeping it here keeps a replacement small.
 // Lengths are millimetres from the page's top left corner, font sizes
 // points.
@@ -89,9 +91,13 @@ func newDoc(paper string, date time.Time) (*doc, error) {
 		return nil, fmt.Errorf("page size %q: expected A4 or Letter", paper)
 	}
 	f := fpdf.NewCustom(&fpdf.InitType{OrientationStr: "P", UnitStr: "mm", Size: size})
-	f.AddUTF8FontFromBytes("go", "", goregular.TTF)
-	f.AddUTF8FontFromBytes("go", "B", gobold.TTF)
-	f.AddUTF8FontFromBytes("gomono", "", gomono.TTF)
+	// fpdf writes into the font bytes it is given while it subsets them:
+	// each document gets copies, so that the fonts' package variables
+	// stay as they are and the next document in the process comes out
+	// with the same bytes.
+	f.AddUTF8FontFromBytes("go", "", bytes.Clone(goregular.TTF))
+	f.AddUTF8FontFromBytes("go", "B", bytes.Clone(gobold.TTF))
+	f.AddUTF8FontFromBytes("gomono", "", bytes.Clone(gomono.TTF))
 	date = date.UTC()
 	f.SetCreationDate(date)
 	f.SetModificationDate(date)
@@ -439,6 +445,70 @@ func (d *doc) roundBox(x, y, w, h, r float64, fill *rgb, s lineStyle) {
 	}
 	d.f.RoundedRect(x, y, w, h, r, "1234", style)
 	d.unstroke()
+}
+
+// circle draws a circle, filled with fill when non-nil and outlined when
+// s.w > 0.
+func (d *doc) circle(x, y, r float64, fill *rgb, s lineStyle) {
+	style := d.paint(fill, s)
+	if style == "" {
+		return
+	}
+	d.f.Circle(x, y, r, style)
+	d.unstroke()
+}
+
+// polygon draws the closed outline through pts, filled with fill when
+// non-nil and outlined when s.w > 0.
+func (d *doc) polygon(pts []pt, fill *rgb, s lineStyle) {
+	style := d.paint(fill, s)
+	if style == "" || len(pts) < 3 {
+		return
+	}
+	ps := make([]fpdf.PointType, len(pts))
+	for i, p := range pts {
+		ps[i] = fpdf.PointType{X: p.x, Y: p.y}
+	}
+	d.f.Polygon(ps, style)
+	d.unstroke()
+}
+
+// paint sets the fill and stroke for a closed shape and returns fpdf's
+// style string for them.
+func (d *doc) paint(fill *rgb, s lineStyle) string {
+	style := ""
+	if fill != nil {
+		d.fillColor(*fill)
+		style += "F"
+	}
+	if s.w > 0 {
+		d.stroke(s)
+		style += "D"
+	}
+	return style
+}
+
+// label draws spans on one line with its baseline at y, from x ("L"),
+// centred on x ("C") or ending at x ("R").
+func (d *doc) label(x, y float64, spans []span, align string) {
+	w := 0.0
+	for _, sp := range spans {
+		d.font(sp.face, sp.size)
+		w += d.textW(sp.s)
+	}
+	switch align {
+	case "C":
+		x -= w / 2
+	case "R":
+		x -= w
+	}
+	for _, sp := range spans {
+		d.font(sp.face, sp.size)
+		d.textColor(sp.c)
+		d.text(x, y, sp.s)
+		x += d.textW(sp.s)
+	}
+	d.textColor(colInk)
 }
 
 // dot draws a filled circle.

@@ -84,6 +84,7 @@ nor the standards and local rules that apply to the boat.`,
 		Example: `  ampwright check designs/hulls/dunnock
   ampwright check --format json designs/hulls/*
   ampwright pack designs/hulls/marram -o marram.pdf
+  ampwright diagram designs/hulls/tystie -o tystie.svg
   ampwright fleet designs
   ampwright diff --base origin/main --format markdown designs
   ampwright explain wiring.voltageDrop
@@ -101,6 +102,7 @@ nor the standards and local rules that apply to the boat.`,
 	root.AddCommand(
 		newCheckCmd(),
 		newBOMCmd(),
+		newDiagramCmd(),
 		newDiffCmd(),
 		newFleetCmd(),
 		newExplainCmd(),
