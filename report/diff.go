@@ -243,7 +243,7 @@ func DiffMarkdown(w io.Writer, d *result.YardDelta, opts DiffMarkdownOptions) er
 			verb = " is"
 		}
 		fmt.Fprintf(&b, "\n> **Cut to fit %s** (`--max-bytes`): %s not shown, the least urgent. The full diff, never cut, is %s.\n",
-			sizeText(opts.MaxBytes), strings.Join(what, " and ")+verb, where)
+			byteSize(opts.MaxBytes), strings.Join(what, " and ")+verb, where)
 	}
 	b.WriteString(body.String())
 	b.WriteString(tail.String())
@@ -559,7 +559,7 @@ func countOf(n int, one, many string) string {
 	return strconv.Itoa(n) + " " + many
 }
 
-func sizeText(n int) string {
+func byteSize(n int) string {
 	if n%1024 == 0 {
 		return strconv.Itoa(n/1024) + " KiB"
 	}

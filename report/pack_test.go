@@ -24,7 +24,7 @@ import (
 //		go run ./cmd/ampwright check --format json designs/hulls/$h > report/testdata/$h.json
 //	done
 //
-// (the command exits 1 for brackenwell, which fails two checks).
+// (the command exits 1 for brackenwell, which fails four checks).
 var hulls = []string{"dunnock", "marram", "brackenwell", "tystie", "sanderling"}
 
 func fixture(t *testing.T, hull string) *result.Result {
