@@ -46,8 +46,12 @@ func load(t *testing.T, circuit, current string) schema.Load {
 	return schema.Load{Circuit: circuit, Kind: "general", Current: amp(t, current), Duty: 1, Quantity: 1}
 }
 
-// rules is the least of a rulebook Build reads.
+// rules is the least of a rulebook Build and the conductor physics read.
 var rules = schema.Rulebook{
+	Resistance: &schema.ResistanceRule{
+		Resistivity: 1 / 58.0, Alpha: 0.00393, LayFactor: 1, TinnedFactor: 1,
+		Temperature: unit.Temperature{Quantity: unit.Quantity{Value: 30, Unit: "°C", Text: "30 °C"}},
+	},
 	VoltageDrop: &schema.VoltageDropRule{Critical: 3, Other: 10, Charging: "critical"},
 	PV:          &schema.PVRule{ConductorFactor: 1.56, InputFactor: 1.25},
 	Sources:     &schema.SourcesRule{AlternatorHotFactor: 0.75},
@@ -279,6 +283,40 @@ func TestNegativeSide(t *testing.T) {
 func withReturn(c schema.Conductor, to string) schema.Conductor {
 	c.Return = &schema.Return{To: to}
 	return c
+}
+
+// TestSwitchAheadOfPairedPanel: a battery switch between the bank and a
+// panel with its own negative bus has no return beside it: the panel's
+// circuits return over the negative side, and are counted once there.
+func TestSwitchAheadOfPairedPanel(t *testing.T) {
+	d := negativeSide(t)
+	d.Buses["switch"] = schema.Bus{Kind: "switch"}
+	delete(d.Wiring, "bank-panel")
+	d.Wiring["bank-switch"] = run(t, "bank", "switch")
+	d.Wiring["switch-panel"] = run(t, "switch", "panel")
+	sys, issues := Build(d, rules)
+	if issues != nil {
+		t.Fatal(issues)
+	}
+	sw := sys.Run("bank-switch")
+	if sw.Ret.Own || sw.Ret.Via != nil {
+		t.Errorf("the switch's feeder has a return: %+v", sw.Ret)
+	}
+	if _, ok := sys.Landing(sw); ok {
+		t.Error("the switch's feeder lands somewhere")
+	}
+	// Its drop is over the positive conductor alone.
+	res := ConductorResistance(rules, sw.Spec, sw.Spec.Size, sys.Temperature(sw.Spec))
+	if got, want := sys.RunDrop(sw, sw.Spec.Size).Volts, sw.DropCurrent*sw.Spec.Length.Metres()*res.RT; !near(got, want) {
+		t.Errorf("drop %g V, want the positive conductor's %g V", got, want)
+	}
+	// The loads' 15.111 A against the 30 A charge return, as before.
+	if r := sys.Run("shunt-main"); !near(r.Current, 30) {
+		t.Errorf("shunt-main %g A, want 30 A (%s)", r.Current, r.Basis)
+	}
+	if r := sys.Run("shunt-main"); strings.Contains(r.Basis, "bank-switch") {
+		t.Errorf("the switch's feeder counted among the returns: %s", r.Basis)
+	}
 }
 
 // TestNegativeLoop: the negative side must be a tree.

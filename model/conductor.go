@@ -215,6 +215,11 @@ func (s *System) RunDrop(r *Run, size unit.Size) Drop {
 		d.RetRes = ConductorResistance(s.Rules, v.Spec, v.Spec.Size, s.Temperature(v.Spec))
 		d.RetLength, d.RetCurrent = v.Spec.Length.Metres(), v.Current
 		d.Volts = r.DropCurrent*l*d.Res.RT + d.RetCurrent*d.RetLength*d.RetRes.RT
+	case !r.Ret.Own:
+		// No return conductor of its own: the run's current returns over
+		// the negative side the design draws, counted on the circuits that
+		// land there.
+		d.Volts = r.DropCurrent * l * d.Res.RT
 	case r.Ret.Own && !r.Ret.Mirror:
 		d.RetRes = ConductorResistance(s.Rules, r.Spec, r.Ret.Size, temp)
 		d.RetLength, d.RetCurrent = r.Ret.Length, r.DropCurrent

@@ -221,6 +221,26 @@ func (b *builder) landReturns() {
 			r.Ret.Joins = up.In
 		}
 	}
+	// A run to a bus with no negative bus of its own has a return beside
+	// it only for the returns that join it there; when every run beyond
+	// returns some other way (a battery switch ahead of a panel with its
+	// own negative bus), nothing returns beside it, and it has no return
+	// conductor.
+	joined := map[*Run]bool{}
+	for _, r := range s.Runs {
+		if r.Ret.Joins != nil {
+			joined[r.Ret.Joins] = true
+		}
+	}
+	for _, r := range s.Runs {
+		if r.Role != PV && r.DownNode.Kind == KindBus && r.Ret.Own && r.Ret.Via == nil && !joined[r] && len(r.Children) > 0 {
+			if r.Spec.Return != nil {
+				b.fail(r.Path+".return", "nothing returns beside the run: the runs beyond %q return to negative buses of their own, so give no return here", r.Down)
+				continue
+			}
+			r.Ret = ReturnPath{}
+		}
+	}
 }
 
 // returnCurrents sets each negative conductor's design current: the

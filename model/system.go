@@ -151,9 +151,11 @@ type Run struct {
 
 // ReturnPath is how a positive run's current returns.
 type ReturnPath struct {
-	// Own is true when the run has a return conductor of its own (every
-	// run but one that feeds a bus whose circuits return to a negative
-	// bus of their own).
+	// Own is true when the run has a return conductor of its own: every
+	// run of a design that draws no negative side; with one, every run but
+	// one that feeds a bus whose circuits return to a negative bus of their
+	// own, or a bus (a switch) beyond which every run returns some other
+	// way.
 	Own bool
 	// Mirror is true when its own return conductor is of the run's size
 	// and length, as on every design that draws no negative side.
