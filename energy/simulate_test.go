@@ -4,7 +4,9 @@ import (
 	"math"
 	"testing"
 
+	"github.com/ampwright/ampwright/model"
 	"github.com/ampwright/ampwright/schema"
+	"github.com/ampwright/ampwright/schema/unit"
 )
 
 // simOf is the simulation's view of a bank of n parallel 12 V batteries
@@ -478,5 +480,107 @@ func BenchmarkSimulateYearThreeBanks(b *testing.B) {
 	b.ReportAllocs()
 	for b.Loop() {
 		Simulate(banks, links, flows)
+	}
+}
+
+// TestLayoutDay: a shore charger set to run the whole period of a
+// scenario on shore power charges every hour, overnight too (the first
+// model ran every charger from 08:00 only); an alternator runs the
+// engine's hours from 08:00; a load with windows draws within them and one
+// without is spread over the day.
+func TestLayoutDay(t *testing.T) {
+	b := bankOf(t, "agm", "12 V", "105 Ah", 3, 0.5)
+	b.Sources = []*model.Source{
+		{Name: "shore", Kind: model.ShoreCharger, Output: 30, Charger: &schema.Charger{Kind: "shore"}},
+		{Name: "alternator", Kind: model.Alternator, Output: 40, Charger: &schema.Charger{Kind: "alternator"}},
+	}
+	harbour := schema.Scenario{Hours: 24, ShorePower: true}
+	for h, a := range chargerDay(b, "harbour", harbour) {
+		if a != 30 {
+			t.Errorf("harbour hour %d: %v A, want the shore charger's 30 A", h, a)
+		}
+	}
+	passage := schema.Scenario{Hours: 24, EngineHours: 3}
+	for h, a := range chargerDay(b, "passage", passage) {
+		want := 0.0
+		if h >= 8 && h < 11 {
+			want = 40
+		}
+		if a != want {
+			t.Errorf("passage hour %d: %v A, want %v", h, a, want)
+		}
+	}
+
+	vb := &VoyageBank{Bank: b, Model: BankModel{Voltage: 12}}
+	se := &ScenarioEnergy{Name: "anchor", Hours: 24, Loads: []LoadEnergy{
+		{Name: "anchor-light", Wh: 18, Watts: 2, Windows: []schema.Window{{From: 21, To: 6}}},
+		{Name: "fridge", Wh: 480, Watts: 48},
+	}}
+	load, peukert := loadDay(vb, se, schema.Scenario{Hours: 24})
+	for h := range 24 {
+		want := 40.0 / 24 // the fridge, 480 Wh ÷ 12 V over the day
+		if h >= 21 || h < 6 {
+			want += 18.0 / 12 / 9 // the anchor light's 1.5 Ah over its 9 hours
+		}
+		if math.Abs(load[h]-want) > 1e-12 {
+			t.Errorf("hour %d: %v A, want %v", h, load[h], want)
+		}
+		if peukert[h] != 1 { // no exponent in the catalog entry
+			t.Errorf("hour %d: Peukert factor %v, want 1", h, peukert[h])
+		}
+	}
+}
+
+// TestPeukertAtLoadCurrent: a windlass draws 85 A while it runs, a third
+// of it from each of three 110 Ah batteries, so Peukert's law applies at
+// 28.3 A a battery whatever the hour's mean; the fridge beside it, below
+// the rated current, is not corrected. The hour's factor weighs the two by
+// their charge.
+func TestPeukertAtLoadCurrent(t *testing.T) {
+	b := bankOf(t, "flooded", "12 V", "110 Ah", 3, 0.5)
+	b.Spec.Battery.RatedHours = 20
+	b.Spec.Battery.Peukert = ptr(1.25)
+	vb := &VoyageBank{Bank: b, Model: BankModel{Voltage: 12}}
+	se := &ScenarioEnergy{Name: "anchor", Hours: 24, Loads: []LoadEnergy{
+		{Name: "windlass", Wh: 102, Watts: 1020},
+		{Name: "fridge", Wh: 480, Watts: 60},
+	}}
+	_, peukert := loadDay(vb, se, schema.Scenario{Hours: 24})
+	f := 110 / PeukertCapacity(110, 20, 1.25, 85.0/3)
+	want := (102*f + 480) / 582
+	for h := range 24 {
+		if math.Abs(peukert[h]-want) > 1e-12 {
+			t.Fatalf("hour %d: factor %v, want %v (windlass at %.3f)", h, peukert[h], want, f)
+		}
+	}
+}
+
+// TestTooColdToCharge: a LiFePO4 bank below its battery's charge limit is
+// not charged: at its own temperature, or, outside the cabin and engine
+// space, at the month's daytime ambient when that is lower.
+func TestTooColdToCharge(t *testing.T) {
+	b := bankOf(t, "lifepo4", "12.8 V", "100 Ah", 1, 0.8)
+	b.Spec.Battery.ChargeLowLimit = &unit.Temperature{Quantity: q(t, "0 °C", unit.DimTemperature)}
+	b.Spec.Temperature = unit.Temperature{Quantity: q(t, "12 °C", unit.DimTemperature)}
+	site := schema.Site{DayAmbient: map[string]unit.Temperature{"Jan": {Quantity: q(t, "-3 °C", unit.DimTemperature)}}}
+	for _, tt := range []struct {
+		location string
+		month    int
+		want     bool
+	}{
+		{"cabin", 0, false},    // the cabin keeps its 12 °C
+		{"deck-box", 0, true},  // a deck box follows January's −3 °C
+		{"deck-box", 1, false}, // no February figure: the bank's own
+		{"engine-space", 0, false},
+	} {
+		b.Spec.Location = tt.location
+		if got := tooColdToCharge(b, site, tt.month); got != tt.want {
+			t.Errorf("%s in %s: too cold %v, want %v", tt.location, Months[tt.month], got, tt.want)
+		}
+	}
+	b.Spec.Temperature = unit.Temperature{Quantity: q(t, "-2 °C", unit.DimTemperature)}
+	b.Spec.Location = "cabin"
+	if !tooColdToCharge(b, site, 5) {
+		t.Error("a bank at −2 °C charged against a 0 °C limit")
 	}
 }
