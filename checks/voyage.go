@@ -161,43 +161,53 @@ limit of its own (voyage.floor uses it).
 Method, hour by hour of solar time on the month's recommended average day
 (Duffie & Beckman Table 1.6.1):
   - hourly horizontal irradiance from the month's daily irradiation H by
-    Collares-Pereira & Rabl: I = H × r_t(ω, ωs);
+    Collares-Pereira & Rabl, each hour's share r_t(ω, ωs) taken at the
+    middle of the hour and the shares scaled to sum to one, so the hours
+    add up to H;
   - beam and diffuse parts by Erbs et al. (1982);
   - plane of array by the isotropic sky model, with ground reflection at
     the site's albedo, averaged over 24 headings when the boat swings at
     anchor;
-  - cell temperature by NOCT (Tc = Ta + (NOCT − 20)/800 × G) where the
-    module gives NOCT, else by the Sandia model for its construction and
-    mounting;
+  - cell temperature by the SAM NOCT model (Gilman et al. 2018) where the
+    module gives NOCT, with the installed NOCT: NOCT raised by the
+    rulebook's cellTemperature rise for the gap behind the modules (the
+    array's standoff, else the rulebook's gap for its mount; Fuentes
+    1987), so a flush hardtop array runs hotter than one on an open rail;
+    else by the Sandia model for its construction and mounting;
   - MPPT: P = P_STC × G/1000 × (1 + γ (Tc − 25)) × (1 − shading)(1 − soiling)
-    (1 − mismatch) × (1 − wiring loss) × η_controller;
+    (1 − mismatch) × (1 − ΔV_pv × G/1000)(1 − ΔV_charge × G/1000) × η_controller;
   - PWM: the array is held at the charging voltage: P = V_charge × Isc ×
-    N_strings × G/1000 × (1 + α (Tc − 25)) × losses, not above the MPPT
-    figure;
+    N_strings × G/1000 × (1 + α (Tc − 25)) × losses × (1 − ΔV_charge × G/1000),
+    not above the array's maximum power (what it would take above is
+    "capped");
   - clipped at the controller's rated output × V_charge.
-The other kind of controller's figure is shown beside it. The wiring loss is
-the voltage drop of the solar and charge runs, scaled with irradiance.
-Solar fraction = harvest / the scenario's energy per day.`,
+The wiring's ΔV are the voltage drops of the solar and charge runs at the
+array's rated current, as fractions, scaled with irradiance.
+
+Each month's figure lists what recomputes it by hand from the day's
+totals: with H_POA the day's irradiation on the array and T̄c its cells'
+mean temperature weighted by irradiance,
+
+    MPPT: E = P_STC × H_POA ÷ 1 kW/m² × (1 + γ (T̄c − 25 °C)) × (1 − shading)
+              × (1 − soiling) × (1 − mismatch) × F_wiring × η_controller − clipped
+    PWM:  E = V_charge × Isc × N_strings × H_POA ÷ 1 kW/m² × (1 + α (T̄c − 25 °C))
+              × (1 − shading) × (1 − soiling) × (1 − mismatch) × F_wiring − capped − clipped
+
+F_wiring being the wiring factors weighted by energy over the day (°F for
+an imperial design). The other kind of controller's figure is shown
+beside it. Solar fraction = harvest / the scenario's energy per day.`,
 	Run: func(in *Input, out *Report) {
 		d := in.Design
+		u := unitsOf(in)
 		primary := in.Sys.Primary()
 		totals := map[string]float64{}
 		for _, ah := range in.Energy.Harvest {
+			path := "arrays." + quotePath(ah.Name)
 			for _, m := range ah.Months {
 				if ah.Bank == primary {
 					totals[m.Month] += m.Wh
 				}
-				out.Figure(result.Figure{
-					ID: result.FigEnergyHarvest, Subject: ah.Name + " " + m.Month, Value: round(m.Wh, 1), Unit: "Wh/day",
-					Formula: "Σ over the hours of the mean day of P(hour), see explain energy.harvest",
-					Inputs: []result.Input{
-						{Name: "H", Value: m.H, Unit: "kWh/m²/day", From: "site.irradiation." + m.Month},
-						{Name: "H_POA", Value: round(m.POA, 3), Unit: "kWh/m²/day", From: "isotropic model"},
-						{Name: "clipped", Value: round(m.Clipped, 1), Unit: "Wh", From: "controller output limit"},
-						{Name: "other controller kind", Value: round(m.AltWh, 1), Unit: "Wh/day", From: otherKind(ah.Kind)},
-					},
-					Source: d.Site.Irradiation.Source + "; Collares-Pereira & Rabl (1979); Erbs et al. (1982); isotropic sky",
-				})
+				out.Figure(harvestFigure(in, u, path, ah, m))
 			}
 		}
 		for _, se := range in.Energy.Budget {
@@ -217,6 +227,93 @@ Solar fraction = harvest / the scenario's energy per day.`,
 			}
 		}
 	},
+}
+
+// harvestFigure is an array's harvest on the mean day of one month, with
+// every input that recomputes it by hand from the day's totals.
+func harvestFigure(in *Input, u units, path string, ah energy.ArrayHarvest, m energy.ArrayMonth) result.Figure {
+	d := in.Design
+	ambFrom := "site.designHigh"
+	if _, ok := d.Site.DayAmbient[m.Month]; ok {
+		ambFrom = "site.dayAmbient." + m.Month
+	}
+	av, au := u.temp(m.Ambient)
+	cv, cu := u.temp(m.Cell)
+	pwm := ah.Kind == "pwm"
+	coeff, coeffName, coeffFrom := ah.Gamma, "γ", "catalog data: gammaPmax"
+	if pwm {
+		coeff, coeffName, coeffFrom = ah.Alpha, "α", "catalog data: alphaIsc"
+		if !ah.AlphaGiven {
+			coeffFrom = "common practice: Isc rises about 0.05 %/°C where the module gives no alphaIsc"
+		}
+	}
+	kv, ku := u.perDegree(coeff)
+	wiringFrom := fmt.Sprintf("(1 − %.4g × G/1000) for the charge run", ah.ChgDrop)
+	if !pwm {
+		wiringFrom = fmt.Sprintf("(1 − %.4g × G/1000) for the solar runs × (1 − %.4g × G/1000) for the charge run", ah.PVDrop, ah.ChgDrop)
+	}
+	wiringFrom += ", drops at rated current (wiring.voltageDrop), weighted by energy over the day"
+	tilt := "flat"
+	if a := in.Design.Arrays[ah.Name]; a.Tilt > 0 {
+		tilt = fmt.Sprintf("tilted %g°", a.Tilt)
+		if a.SwingsAtAnchor {
+			tilt += ", averaged over 24 headings (swings at anchor)"
+		} else {
+			tilt += fmt.Sprintf(", facing %g°", a.Azimuth)
+		}
+	}
+	var inputs []result.Input
+	formula := ""
+	tail := " × (1 − shading) × (1 − soiling) × (1 − mismatch) × F_wiring"
+	if pwm {
+		formula = "E = V_charge × Isc × N_strings × H_POA ÷ 1 kW/m² × (1 + α × (T̄c − " + u.stc() + "))" + tail + " − capped − clipped"
+		inputs = append(inputs,
+			result.Input{Name: "V_charge", Value: round(ah.VCharge, 3), Unit: "V", From: "bank's absorption voltage × series"},
+			result.Input{Name: "Isc", Value: ah.Isc, Unit: "A", From: "catalog data"},
+			result.Input{Name: "N_strings", Value: float64(ah.Strings), From: path + ".strings"})
+	} else {
+		formula = "E = P_STC × H_POA ÷ 1 kW/m² × (1 + γ × (T̄c − " + u.stc() + "))" + tail + " × η_controller − clipped"
+		inputs = append(inputs, result.Input{Name: "P_STC", Value: round(ah.STC, 3), Unit: "W", From: string(result.FigArraySTCPower)})
+	}
+	inputs = append(inputs,
+		result.Input{Name: "H", Value: m.H, Unit: "kWh/m²/day", From: "site.irradiation." + m.Month},
+		result.Input{Name: "H_POA", Value: round(m.POA, 4), Unit: "kWh/m²/day", From: "H split into hours by Collares-Pereira & Rabl (scaled to H), Erbs, isotropic sky, " + tilt},
+		result.Input{Name: "T_amb", Value: av, Unit: au, From: ambFrom},
+		result.Input{Name: "T̄c", Value: cv, Unit: cu, From: "mean cell temperature weighted by the irradiance on the array, by " + cellModelText(u, ah.Cell, ah.Wind)},
+		result.Input{Name: coeffName, Value: kv, Unit: ku, From: coeffFrom},
+		result.Input{Name: "shading", Value: ah.Shading, From: path + ".shading"},
+		result.Input{Name: "soiling", Value: ah.Soiling, From: path + ".soiling"},
+		result.Input{Name: "mismatch", Value: ah.Mismatch, From: path + ".mismatch"},
+		result.Input{Name: "F_wiring", Value: round(m.Wiring, 5), From: wiringFrom},
+	)
+	if pwm {
+		inputs = append(inputs, result.Input{Name: "capped", Value: round(m.Capped, 1), Unit: "Wh", From: "PWM current beyond the array's maximum power, hour by hour"})
+	} else {
+		inputs = append(inputs, result.Input{Name: "η_controller", Value: ah.Efficiency, From: "catalog data for the controller"})
+	}
+	inputs = append(inputs,
+		result.Input{Name: "clipped", Value: round(m.Clipped, 1), Unit: "Wh", From: "controller's rated output × V_charge, hour by hour"},
+		result.Input{Name: "other controller kind", Value: round(m.AltWh, 1), Unit: "Wh/day", From: otherKind(ah.Kind) + " on the same array, for comparison"},
+	)
+	return result.Figure{
+		ID: result.FigEnergyHarvest, Subject: ah.Name + " " + m.Month, Value: round(m.Wh, 1), Unit: "Wh/day",
+		Formula: formula,
+		Inputs:  inputs,
+		Source:  d.Site.Irradiation.Source + "; Collares-Pereira & Rabl (1979); Erbs et al. (1982); isotropic sky; " + cellSource(in, ah.Cell),
+	}
+}
+
+// cellSource cites the cell temperature model and, for the installed
+// NOCT, the rulebook's table.
+func cellSource(in *Input, cm energy.CellModel) string {
+	s := "Sandia array performance model (King et al. 2004, SAND2004-3535)"
+	if cm.SAM {
+		s = "SAM NOCT cell temperature model (Gilman et al. 2018, NREL/TP-6A20-67399)"
+	}
+	if ct := in.Rules.CellTemperature; ct != nil {
+		s += "; " + sourced(ct.Sourced)
+	}
+	return s
 }
 
 func otherKind(kind string) string {

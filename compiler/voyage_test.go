@@ -128,3 +128,64 @@ func TestVoyageAcceptanceMatters(t *testing.T) {
 		}
 	}
 }
+
+// TestHarvestRecomputes: on every example hull, each month's harvest
+// figure recomputes by hand from its inputs, as the calculation sheets
+// print them, to 0.5 Wh:
+//
+//	MPPT: E = P_STC × H_POA ÷ 1 kW/m² × (1 + γ (T̄c − T_STC)) × (1 − shading)(1 − soiling)(1 − mismatch) × F_wiring × η − clipped
+//	PWM:  E = V_charge × Isc × N_strings × H_POA ÷ 1 kW/m² × (1 + α (T̄c − T_STC)) × … × F_wiring − capped − clipped
+//
+// with the coefficient in percent per degree of the design's units and
+// T_STC 25 °C or 77 °F. A flat array's irradiation equals the designer's
+// daily figure within 0.1 % (the hourly shares are scaled to it).
+func TestHarvestRecomputes(t *testing.T) {
+	for _, h := range voyageHulls {
+		r, _, err := Compile("../designs/hulls/" + h)
+		if err != nil {
+			t.Fatal(err)
+		}
+		stc := 25.0
+		if r.Design.Units == "imperial" {
+			stc = 77
+		}
+		n := 0
+		for _, f := range r.Figures {
+			if f.ID != result.FigEnergyHarvest {
+				continue
+			}
+			n++
+			in := map[string]float64{}
+			for _, x := range f.Inputs {
+				in[x.Name] = x.Value
+			}
+			losses := (1 - in["shading"]) * (1 - in["soiling"]) * (1 - in["mismatch"]) * in["F_wiring"]
+			var e float64
+			if _, pwm := in["V_charge"]; pwm {
+				e = in["V_charge"]*in["Isc"]*in["N_strings"]*in["H_POA"]*(1+in["α"]/100*(in["T̄c"]-stc))*losses - in["capped"] - in["clipped"]
+			} else {
+				e = in["P_STC"]*in["H_POA"]*(1+in["γ"]/100*(in["T̄c"]-stc))*losses*in["η_controller"] - in["clipped"]
+			}
+			if math.Abs(e-f.Value) > 0.5 {
+				t.Errorf("%s %s: recomputed %.2f Wh from the inputs, figure %.1f Wh", h, f.Subject, e, f.Value)
+			}
+		}
+		if n == 0 {
+			t.Errorf("%s: no harvest figures", h)
+		}
+		d, err := Load("../designs/hulls/" + h)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, ah := range r.Harvest {
+			if d.Spec.Arrays[ah.Array].Tilt != 0 {
+				continue
+			}
+			for _, m := range ah.Months {
+				if math.Abs(m.POA-m.Irradiation) > 0.001*m.Irradiation {
+					t.Errorf("%s %s %s: flat array's irradiation %.4f, the designer's %.4f kWh/m²/day", h, ah.Array, m.Month, m.POA, m.Irradiation)
+				}
+			}
+		}
+	}
+}

@@ -188,6 +188,15 @@ type ArrayHarvest struct {
 	// Alternative names the other controller kind, whose figure is AltWh.
 	Alternative string         `json:"alternative"`
 	Months      []MonthHarvest `json:"months"`
+	// STC is the array's power at STC, W. CellModel names the cell
+	// temperature model ("SAM NOCT" or "Sandia" and its coefficient set);
+	// NOCT is the module's and NOCTRise what the array's mounting adds to
+	// it, °C, for the gap Standoff (m) behind the modules.
+	STC       float64 `json:"stc,omitempty"`
+	CellModel string  `json:"cellModel,omitempty"`
+	NOCT      float64 `json:"noct,omitempty"`
+	NOCTRise  float64 `json:"noctRise,omitempty"`
+	Standoff  float64 `json:"standoff,omitempty"`
 }
 
 // MonthHarvest is an array's mean day in one month.
@@ -202,8 +211,18 @@ type MonthHarvest struct {
 	Wh      float64 `json:"wh"`
 	AltWh   float64 `json:"altWh"`
 	Clipped float64 `json:"clipped"`
-	// PeakCell is the day's highest cell temperature, °C.
+	// PeakCell is the day's highest cell temperature, °C; Cell its mean
+	// weighted by the irradiance on the array and Ambient the ambient it
+	// was found at, °C.
 	PeakCell float64 `json:"peakCell"`
+	Cell     float64 `json:"cell,omitempty"`
+	Ambient  float64 `json:"ambient,omitempty"`
+	// TempFactor is 1 + γ (Cell − 25 °C) (α for PWM), Wiring the fraction
+	// the wiring's drops leave, weighted by energy, and Capped what a PWM
+	// controller would take above the array's maximum power, Wh.
+	TempFactor float64 `json:"tempFactor,omitempty"`
+	Wiring     float64 `json:"wiring,omitempty"`
+	Capped     float64 `json:"capped,omitempty"`
 }
 
 // Voyage is the state-of-charge run over the design voyage. Its
