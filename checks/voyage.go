@@ -111,10 +111,10 @@ func voyageBank(in *Input, out *Report, v *energy.VoyageRun, vb *energy.VoyageBa
 		},
 		Source: src,
 	})
-	// The primary bank's subject does not name it where there are others.
+	// Where there are several banks, each finding names its bank.
 	name := ""
-	if in.Sys.MultiBank() && vb == v.Primary {
-		name = vb.Bank.Name + ": "
+	if in.Sys.MultiBank() {
+		name = vb.Bank.Name + " bank: "
 	}
 	f := result.Finding{
 		Subject: subject, Value: lowest, Limit: floor, Unit: "% SoC", Margin: round(lowest-floor, 2),

@@ -98,8 +98,9 @@ type BankRun struct {
 	// again (SimBank.Full), 0 when it never fell below full, −1 when it was
 	// not full again within the run.
 	RecoverHours int
-	// Absorption is the hours the bank was offered more than it accepted
-	// before it was full: the hours its acceptance held the charge back.
+	// Absorption is the hours the bank took all it would accept, less than
+	// its maximum charge current, before it was full: the hours its
+	// acceptance held the charge back.
 	Absorption int
 	Ledger     Ledger
 }
@@ -234,7 +235,9 @@ func simulateFrom(banks []SimBank, links []SimLink, flows [][]Flow, start []Well
 				lg.Charged += stored * v
 				lg.ChargeLoss += (gross - stored) * v
 				lg.Spilled += (net - gross) * v
-				if net > gross+1e-9 && !full[b] && !f.Cold && gross < sb.MaxCharge-1e-9 {
+				// Held back by the wells, not by a current limit: a bank
+				// given all it would take (a link passes no more) is absorbing.
+				if net >= accept[b]-1e-9 && !full[b] && !f.Cold && accept[b] < sb.MaxCharge-1e-9 {
 					run.Absorption++
 				}
 			case net > -1e-12: // sources and loads even: the wells settle
@@ -314,7 +317,8 @@ func dcdc(l *SimLink, surplus, accept []float64) (in, out float64) {
 // has), it shares the two surpluses in proportion to what each bank
 // accepts; where together they do not cover both banks' loads, or neither
 // bank accepts more, it only carries one bank's surplus to the other's
-// loads. It never takes charge out of a battery.
+// loads. It passes no more than the receiving bank takes, and never
+// takes charge out of a battery.
 func share(l *SimLink, surplus, accept []float64) float64 {
 	a, b := l.From, l.To
 	sa, sb := surplus[a], surplus[b]
@@ -333,6 +337,13 @@ func share(l *SimLink, surplus, accept []float64) float64 {
 	}
 	if l.Kind == "isolator" {
 		t = max(t, 0)
+	}
+	// Nothing passes that the receiving bank would not take: what neither
+	// accepts stays with the bank whose sources offered it.
+	if t > 0 {
+		t = min(t, max(0, accept[b]-sb))
+	} else {
+		t = -min(-t, max(0, accept[a]-sa))
 	}
 	t = max(-l.Rating, min(l.Rating, t))
 	surplus[a] -= t
