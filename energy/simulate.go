@@ -84,6 +84,14 @@ type Ledger struct {
 	Loads float64
 }
 
+// scale turns a ledger kept in ampere-hours into watt-hours at v volts.
+func (lg *Ledger) scale(v float64) {
+	for _, x := range []*float64{&lg.Start, &lg.End, &lg.Offered, &lg.LinkIn, &lg.LinkOut, &lg.Direct,
+		&lg.Charged, &lg.ChargeLoss, &lg.Spilled, &lg.Drawn, &lg.Peukert, &lg.Unmet, &lg.Loads} {
+		*x *= v
+	}
+}
+
 // BankRun is the outcome of one bank's run.
 type BankRun struct {
 	// SoC is the state of charge at the end of each hour, 0–1.
@@ -153,6 +161,10 @@ func simulateFrom(banks []SimBank, links []SimLink, flows [][]Flow, start []Well
 	surplus := make([]float64, n)
 	accept := make([]float64, n)
 	full := make([]bool, n)
+	inv := make([]float64, n)
+	for b := range banks {
+		inv[b] = 1 / banks[b].Kin.Qmax
+	}
 	linked := make([]bool, n)
 	for _, l := range links {
 		linked[l.From], linked[l.To] = true, true
@@ -163,8 +175,10 @@ func simulateFrom(banks []SimBank, links []SimLink, flows [][]Flow, start []Well
 			wells[b] = start[b]
 		}
 		runs[b] = BankRun{SoC: make([]float64, hours), Lowest: 1, FirstBreach: -1, RecoverHours: -1}
-		runs[b].Ledger.Start = wells[b].Q() * banks[b].Volts
+		runs[b].Ledger.Start = wells[b].Q()
 	}
+	// The ledgers are kept in ampere-hours, and turned into watt-hours at
+	// each bank's nominal voltage at the end.
 	// DC-DC chargers first: they run on their input bank's surplus before
 	// combiners and isolators share what is left.
 	order := make([]int, 0, len(links))
@@ -189,30 +203,29 @@ func simulateFrom(banks []SimBank, links []SimLink, flows [][]Flow, start []Well
 				accept[b] = max(0, min(stored/sb.Efficiency, sb.MaxCharge))
 			}
 			lg := &runs[b].Ledger
-			lg.Offered += (f.Solar + f.Charger) * sb.Volts
-			lg.Loads += f.Load * sb.Volts
+			lg.Offered += f.Solar + f.Charger
+			lg.Loads += f.Load
 		}
 		for _, li := range order {
 			l := &links[li]
 			from, to := &runs[l.From].Ledger, &runs[l.To].Ledger
-			vf, vt := banks[l.From].Volts, banks[l.To].Volts
 			if l.Kind == "dc-dc" {
 				in, out := dcdc(l, surplus, accept)
-				from.LinkOut += in * vf
-				to.LinkIn += out * vt
-				to.Offered += out * vt
+				from.LinkOut += in
+				to.LinkIn += out
+				to.Offered += out
 				lruns[li].Ah += out
 				lruns[li].Loss += in*l.VIn - out*l.VOut
 				continue
 			}
 			t := share(l, surplus, accept)
 			if t < 0 {
-				from, to, vf, vt = to, from, vt, vf
+				from, to = to, from
 			}
 			a := math.Abs(t)
-			from.LinkOut += a * vf
-			to.LinkIn += a * vt
-			to.Offered += a * vt
+			from.LinkOut += a
+			to.LinkIn += a
+			to.Offered += a
 			lruns[li].Ah += a
 			if l.Kind == "isolator" {
 				lruns[li].Loss += a * l.Drop
@@ -225,27 +238,26 @@ func simulateFrom(banks []SimBank, links []SimLink, flows [][]Flow, start []Well
 			lg := &run.Ledger
 			w := wells[b]
 			net := surplus[b]
-			v := sb.Volts
 			switch {
 			case net > 1e-12:
-				lg.Direct += f.Load * v
+				lg.Direct += f.Load
 				gross := min(net, accept[b])
 				stored := gross * sb.Efficiency
 				wells[b] = sb.Kin.Step(w, -stored)
-				lg.Charged += stored * v
-				lg.ChargeLoss += (gross - stored) * v
-				lg.Spilled += (net - gross) * v
+				lg.Charged += stored
+				lg.ChargeLoss += gross - stored
+				lg.Spilled += net - gross
 				// Held back by the wells, not by a current limit: a bank
 				// given all it would take (a link passes no more) is absorbing.
 				if net >= accept[b]-1e-9 && !full[b] && !f.Cold && accept[b] < sb.MaxCharge-1e-9 {
 					run.Absorption++
 				}
 			case net > -1e-12: // sources and loads even: the wells settle
-				lg.Direct += (f.Load + net) * v
-				lg.Spilled += net * v
+				lg.Direct += f.Load + net
+				lg.Spilled += net
 				wells[b] = sb.Kin.Step(w, 0)
 			default:
-				lg.Direct += (f.Load + net) * v
+				lg.Direct += f.Load + net
 				pf := max(f.Peukert, 1)
 				ask := -net * pf
 				// The available well gives at least what it holds; the
@@ -257,16 +269,16 @@ func simulateFrom(banks []SimBank, links []SimLink, flows [][]Flow, start []Well
 				room = max(0, room)
 				give := min(ask, room)
 				wells[b] = sb.Kin.Step(w, give)
-				lg.Drawn += ask * v
-				lg.Peukert += (ask + net) * v
+				lg.Drawn += ask
+				lg.Peukert += ask + net
 				if unmet := ask - give; unmet > 1e-12 {
-					lg.Unmet += unmet * v
+					lg.Unmet += unmet
 					if run.FirstBreach < 0 {
 						run.FirstBreach = h
 					}
 				}
 			}
-			soc := wells[b].Q() / sb.Kin.Qmax
+			soc := wells[b].Q() * inv[b]
 			full[b] = soc >= sb.Full
 			run.SoC[h] = soc
 			if soc < run.Lowest-1e-12 {
@@ -276,7 +288,8 @@ func simulateFrom(banks []SimBank, links []SimLink, flows [][]Flow, start []Well
 	}
 	for b := range banks {
 		run := &runs[b]
-		run.Ledger.End = wells[b].Q() * banks[b].Volts
+		run.Ledger.End = wells[b].Q()
+		run.Ledger.scale(banks[b].Volts)
 		if run.Lowest >= banks[b].Full {
 			run.RecoverHours = 0
 			continue
