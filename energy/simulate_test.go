@@ -584,3 +584,29 @@ func TestTooColdToCharge(t *testing.T) {
 		t.Error("a bank at −2 °C charged against a 0 °C limit")
 	}
 }
+
+// TestChargeCurrentLimits: a battery takes no more than its maker's
+// maximum charge current, and a lead-acid bank no more than the rulebook's
+// charge-rate bound (common practice: 30 % of capacity), however much is
+// offered and however empty it is.
+func TestChargeCurrentLimits(t *testing.T) {
+	rules := defaultRulebook(t)
+	lfp := bankOf(t, "lifepo4", "12.8 V", "100 Ah", 2, 0.8)
+	lfp.Spec.Battery.MaxCharge = ptr(unit.Current{Quantity: q(t, "50 A", unit.DimCurrent)})
+	agm := bankOf(t, "agm", "12 V", "100 Ah", 1, 0.5)
+	for _, tt := range []struct {
+		name  string
+		b     SimBank
+		limit float64
+	}{
+		{"LiFePO4 2 × 50 A", simBank(lfp, Bank(lfp, rules), rules), 100},
+		{"AGM 100 Ah at 30 % of C", simBank(agm, Bank(agm, rules), rules), rules.ChargeRate.LeadAcidMax * 100},
+	} {
+		start := tt.b.Kin.At(0.3)
+		r := one(t, tt.b, constant(1, Flow{Charger: 500}), &start)
+		gross := (r.Ledger.Charged + r.Ledger.ChargeLoss) / tt.b.Volts
+		if math.Abs(gross-tt.limit) > 1e-9 {
+			t.Errorf("%s: took %.3f A of 500 A offered, limit %v A", tt.name, gross, tt.limit)
+		}
+	}
+}
