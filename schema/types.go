@@ -198,19 +198,22 @@ type Bank struct {
 
 // Array is one solar array.
 type Array struct {
-	Module         Module       `json:"module"`
-	Series         int          `json:"series"`
-	Strings        int          `json:"strings"`
-	Controller     string       `json:"controller"`
-	Mount          string       `json:"mount"`
-	Standoff       *unit.Length `json:"standoff,omitempty"`
-	Tilt           float64      `json:"tilt"`
-	Azimuth        float64      `json:"azimuth"`
-	SwingsAtAnchor bool         `json:"swingsAtAnchor"`
-	StringFuse     *Protection  `json:"stringFuse,omitempty"`
-	Shading        float64      `json:"shading"`
-	Soiling        float64      `json:"soiling"`
-	Mismatch       float64      `json:"mismatch"`
+	Module         Module      `json:"module"`
+	Series         int         `json:"series"`
+	Strings        int         `json:"strings"`
+	Controller     string      `json:"controller"`
+	Mount          string      `json:"mount"`
+	Tilt           float64     `json:"tilt"`
+	Azimuth        float64     `json:"azimuth"`
+	SwingsAtAnchor bool        `json:"swingsAtAnchor"`
+	StringFuse     *Protection `json:"stringFuse,omitempty"`
+	Shading        float64     `json:"shading"`
+	Soiling        float64     `json:"soiling"`
+	Mismatch       float64     `json:"mismatch"`
+
+	// Standoff is the gap behind the modules; nil takes the rulebook's
+	// for the mount.
+	Standoff *unit.Length `json:"standoff,omitempty"`
 }
 
 // Controller is a charge controller fitted to the boat.
