@@ -143,6 +143,7 @@ func RunAll(list []*Check, in *Input) ([]result.Finding, []result.Figure) {
 		}
 		all.Figures = append(all.Figures, rep.Figures...)
 	}
+	tidy(all.Findings, all.Figures)
 	r := result.Result{Checks: all.Findings}
 	r.SortChecks()
 	return r.Checks, all.Figures

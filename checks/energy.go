@@ -241,18 +241,21 @@ Source: the maker's data for the battery, as entered in the catalog.`,
 			}
 			lim := bt.ChargeLowLimit.Celsius()
 			tb, tl := b.Spec.Temperature.Celsius(), d.Site.RecordLow.Celsius()
+			u := unitsOf(in)
+			v, unit := u.temp(math.Min(tb, tl))
+			l, _ := u.temp(lim)
 			f := result.Finding{
-				Subject: b.Name, Value: math.Min(tb, tl), Limit: lim, Unit: "°C", Margin: round(math.Min(tb, tl)-lim, 2),
+				Subject: b.Name, Value: v, Limit: l, Unit: unit, Margin: round(v-l, 2),
 				Source: "catalog data for " + bt.ID, Position: in.Position(b.Path), Status: result.Pass,
-				Message: fmt.Sprintf("bank at %s, record low %s, charge limit %s", b.Spec.Temperature.Text, d.Site.RecordLow.Text, bt.ChargeLowLimit.Text),
+				Message: fmt.Sprintf("bank at %s, record low %s, charge limit %s", u.tempText(tb), u.tempText(tl), u.tempText(lim)),
 			}
 			switch {
 			case tb < lim:
 				f.Status = result.Fail
-				f.Change = "move or heat the bank, or choose a battery that may be charged at " + b.Spec.Temperature.Text
+				f.Change = "move or heat the bank, or choose a battery that may be charged at " + u.tempText(tb)
 			case tl < lim:
 				f.Status = result.Warn
-				f.Change = "make sure charging is cut off below " + bt.ChargeLowLimit.Text + " (battery management or controller low-temperature cut-off)"
+				f.Change = "make sure charging is cut off below " + u.tempText(lim) + " (battery management or controller low-temperature cut-off)"
 			}
 			out.Add(f)
 		}

@@ -146,23 +146,33 @@ design does not give is a warning.`,
 			case d.Sheathed:
 				limit, why = p.WithinSheathed, "sheathed"
 			}
+			// Distances in the design's units: the rulebook's limits are in
+			// inches, a metric design's distances in millimetres.
+			u := unitsOf(in)
+			lim := limit.Metres()
 			f := result.Finding{
-				Subject: r.Name, Limit: round(limit.Metres(), 4), Unit: "m",
+				Subject: r.Name, Limit: round(lim, 4), Unit: "m",
 				Source: sourced(p.Sourced), Position: in.Position(r.Path), Status: result.Pass,
+			}
+			if u.imperial {
+				f.Limit, f.Unit = round(lim/0.0254, 2), "in"
 			}
 			if d.Distance == nil {
 				f.Status = result.Warn
-				f.Message = fmt.Sprintf("the design does not say how far %s sits from %q; the limit is %s (%s)", d.ID, r.Up, limit.Text, why)
+				f.Message = fmt.Sprintf("the design does not say how far %s sits from %q; the limit is %s (%s)", d.ID, r.Up, u.shortText(lim), why)
 				out.Add(f)
 				continue
 			}
 			dist := d.Distance.Metres()
 			f.Value = round(dist, 4)
-			f.Margin = round(limit.Metres()-dist, 4)
-			f.Message = fmt.Sprintf("%s sits %s from %q; limit %s (%s)", d.ID, d.Distance.Text, r.Up, limit.Text, why)
-			if dist > limit.Metres()+1e-9 {
+			f.Margin = round(lim-dist, 4)
+			if u.imperial {
+				f.Value, f.Margin = round(dist/0.0254, 2), round((lim-dist)/0.0254, 2)
+			}
+			f.Message = fmt.Sprintf("%s sits %s from %q; limit %s (%s)", d.ID, u.shortText(dist), r.Up, u.shortText(lim), why)
+			if dist > lim+1e-9 {
 				f.Status = result.Fail
-				f.Change = fmt.Sprintf("move %s to within %s of %q, or sheathe the conductor up to it", d.ID, limit.Text, r.Up)
+				f.Change = fmt.Sprintf("move %s to within %s of %q, or sheathe the conductor up to it", d.ID, u.shortText(lim), r.Up)
 			}
 			out.Add(f)
 		}

@@ -109,7 +109,10 @@ for the drop at the device, so the runs on the way share the limit.`,
 				if t.Return && t.Run.Role != model.Return {
 					name += " return"
 				}
-				inputs = append(inputs, result.Input{Name: name, Value: round(t.Volts, 4), Unit: "V", From: t.Describe()})
+				u := unitsOf(in)
+				lv, ls := u.length(t.Length)
+				inputs = append(inputs, result.Input{Name: name, Value: round(t.Volts, 4), Unit: "V",
+					From: fmt.Sprintf("%s × %g %s × %s", amps(t.Current), lv, ls, u.resistanceText(t.R))})
 				parts = append(parts, fmt.Sprintf("%s %.3g V", name, t.Volts))
 			}
 			inputs = append(inputs, result.Input{Name: "V", Value: r.DropVoltage, Unit: "V", From: r.VoltBasis})

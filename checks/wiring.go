@@ -2,10 +2,12 @@ package checks
 
 import (
 	"fmt"
+	"math"
 
 	"github.com/ampwright/ampwright/energy"
 	"github.com/ampwright/ampwright/model"
 	"github.com/ampwright/ampwright/result"
+	"github.com/ampwright/ampwright/schema"
 	"github.com/ampwright/ampwright/schema/unit"
 )
 
@@ -43,27 +45,32 @@ mm²) that passes every wiring check.`,
 			}
 			m := measure(in, r, r.Spec.Size)
 			limit := model.DropLimit(in.Rules, r.Class)
+			u := unitsOf(in)
+			lv, lu := u.length(r.Spec.Length.Metres())
+			rv, ru := u.resistance(m.drop.Res.RT)
 			fig := result.Figure{
 				ID: result.FigVoltageDrop, Subject: r.Name, Value: round(m.drop.Pct, 3), Unit: "%",
 				Formula: "drop = I × 2 × L × R′(T) / V × 100",
 				Inputs: []result.Input{
 					{Name: "I", Value: round(r.DropCurrent, 3), Unit: "A", From: r.DropBasis},
-					{Name: "L", Value: round(r.Spec.Length.Metres(), 4), Unit: "m", From: r.Path + ".length"},
-					{Name: "R′(T)", Value: round(m.drop.Res.RT*1000, 5), Unit: "mΩ/m", From: string(result.FigResistance)},
+					{Name: "L", Value: lv, Unit: lu, From: r.Path + ".length"},
+					{Name: "R′(T)", Value: rv, Unit: ru, From: string(result.FigResistance)},
 					{Name: "V", Value: round(r.DropVoltage, 3), Unit: "V", From: r.VoltBasis},
 				},
 				Source: in.Rules.VoltageDrop.Source,
 			}
-			how := fmt.Sprintf("%s × 2 × %s × %.4g mΩ/m", amps(r.DropCurrent), lengthText(in, r.Spec.Length.Metres()), m.drop.Res.RT*1000)
+			how := fmt.Sprintf("%s × 2 × %s × %s", amps(r.DropCurrent), lengthText(in, r.Spec.Length.Metres()), u.resistanceText(m.drop.Res.RT))
 			if !r.Ret.Mirror {
+				rlv, rlu := u.length(m.drop.RetLength)
+				rrv, rru := u.resistance(m.drop.RetRes.RT)
 				fig.Formula = "drop = (I × L × R′(T) + I_ret × L_ret × R′_ret(T)) / V × 100"
 				fig.Inputs = append(fig.Inputs[:3:3],
 					result.Input{Name: "I_ret", Value: round(m.drop.RetCurrent, 3), Unit: "A", From: returnFrom(r)},
-					result.Input{Name: "L_ret", Value: round(m.drop.RetLength, 4), Unit: "m", From: returnFrom(r)},
-					result.Input{Name: "R′_ret(T)", Value: round(m.drop.RetRes.RT*1000, 5), Unit: "mΩ/m", From: returnFrom(r)},
+					result.Input{Name: "L_ret", Value: rlv, Unit: rlu, From: returnFrom(r)},
+					result.Input{Name: "R′_ret(T)", Value: rrv, Unit: rru, From: returnFrom(r)},
 					fig.Inputs[3])
-				how = fmt.Sprintf("%s × %s × %.4g mΩ/m + %s × %s × %.4g mΩ/m", amps(r.DropCurrent), lengthText(in, r.Spec.Length.Metres()), m.drop.Res.RT*1000,
-					amps(m.drop.RetCurrent), lengthText(in, m.drop.RetLength), m.drop.RetRes.RT*1000)
+				how = fmt.Sprintf("%s × %s × %s + %s × %s × %s", amps(r.DropCurrent), lengthText(in, r.Spec.Length.Metres()), u.resistanceText(m.drop.Res.RT),
+					amps(m.drop.RetCurrent), lengthText(in, m.drop.RetLength), u.resistanceText(m.drop.RetRes.RT))
 			}
 			out.Figure(fig)
 			f := result.Finding{
@@ -106,21 +113,31 @@ constant K = 10.75 Ω·cmil/ft is copper at about 29 °C, where 20 °C copper is
 10.37), or the engine-space temperature for a run through an engine space
 when that is higher.`,
 	Run: func(in *Input, out *Report) {
+		u := unitsOf(in)
 		for _, r := range allRuns(in) {
 			res := model.ConductorResistance(in.Rules, r.Spec, r.Spec.Size, in.Sys.Temperature(r.Spec))
+			rv, ru := u.resistance(res.RT)
+			r20, _ := u.resistance(res.R20)
+			av, au := u.alpha(in.Rules.Resistance.Alpha)
+			tv, tu := u.temp(res.Temp)
+			ref := u.ref20()
+			from := "rules.resistance.temperature"
+			if r.Spec.EngineSpace && in.Design.Site.EngineSpace.Celsius() > in.Rules.Resistance.Temperature.Celsius() {
+				from = "site.engineSpace"
+			}
 			out.Figure(result.Figure{
-				ID: result.FigResistance, Subject: r.Name, Value: round(res.RT*1000, 5), Unit: "mΩ/m",
-				Formula: "R′(T) = R′(20 °C) × (1 + α × (T − 20 °C)); " + res.Basis,
+				ID: result.FigResistance, Subject: r.Name, Value: rv, Unit: ru,
+				Formula: "R′(T) = R′(" + ref + ") × (1 + α × (T − " + ref + ")); " + resistanceBasis(in, u, r.Spec, r.Spec.Size, res),
 				Inputs: []result.Input{
-					{Name: "R′(20 °C)", Value: round(res.R20*1000, 5), Unit: "mΩ/m", From: r.Path + ".size"},
-					{Name: "α", Value: in.Rules.Resistance.Alpha, Unit: "1/K", From: "rules.resistance.alpha"},
-					{Name: "T", Value: res.Temp, Unit: "°C", From: "rules.resistance.temperature"},
+					{Name: "R′(" + ref + ")", Value: r20, Unit: ru, From: r.Path + ".size"},
+					{Name: "α", Value: av, Unit: au, From: "rules.resistance.alpha"},
+					{Name: "T", Value: tv, Unit: tu, From: from},
 				},
 				Source: in.Rules.Resistance.Source,
 			})
 			if !res.FromTable {
 				out.Add(result.Finding{
-					Subject: r.Name, Status: result.Warn, Value: round(res.RT*1000, 5), Unit: "mΩ/m",
+					Subject: r.Name, Status: result.Warn, Value: rv, Unit: ru,
 					Message:  fmt.Sprintf("%s is not in the rulebook's resistance table; %s", r.Spec.Size.Text, res.Basis),
 					Source:   sourced(in.Rules.Resistance.Sourced),
 					Position: in.Position(r.Path),
@@ -223,6 +240,11 @@ sheath (default: 16 AWG, or 18 AWG inside a sheath, 33 CFR 183.425).`,
 				Message:  fmt.Sprintf("%s (%.3g mm²) against the minimum %s (%.3g mm²)", r.Spec.Size.Text, area, min.Text, limit),
 				Status:   result.Pass,
 			}
+			if unitsOf(in).imperial {
+				a, l := math.Round(area*cmilPerMM2), math.Round(limit*cmilPerMM2)
+				f.Value, f.Limit, f.Margin, f.Unit = a, l, a-l, "cmil"
+				f.Message = fmt.Sprintf("%s (%.0f cmil) against the minimum %s (%.0f cmil)", r.Spec.Size.Text, a, min.Text, l)
+			}
 			if area < limit*(1-1e-9) {
 				f.Status = result.Fail
 				f.Change = changeFor(in, r)
@@ -230,6 +252,39 @@ sheath (default: 16 AWG, or 18 AWG inside a sheath, 33 CFR 183.425).`,
 			out.Add(f)
 		}
 	},
+}
+
+// cmilPerMM2 is the circular mils in a square millimetre:
+// 1 cmil = π/4 × (0.0254 mm)², so 1 mm² = 1973.525 cmil.
+var cmilPerMM2 = 1 / (math.Pi / 4 * 0.0254 * 0.0254)
+
+// ftPerM is the feet in a metre (1 ft = 0.3048 m exactly).
+const ftPerM = 1 / 0.3048
+
+// resistanceBasis says how a conductor's resistance at 20 °C was found,
+// in the design's units: for an imperial design, resistivity in Ω·cmil/ft
+// over the area in circular mils, per 1000 ft at 68 °F.
+func resistanceBasis(in *Input, u units, c *schema.Conductor, size unit.Size, res model.Resistance) string {
+	if !u.imperial {
+		return res.Basis
+	}
+	rr := in.Rules.Resistance
+	tf := 1.0
+	if c.Material != "copper" {
+		tf = rr.TinnedFactor
+	}
+	rho := rr.Resistivity * cmilPerMM2 / ftPerM // Ω·cmil/ft
+	area := size.MM2() * cmilPerMM2
+	r20, ru := u.resistance(res.R20)
+	if _, ok := size.AWG(); ok {
+		return fmt.Sprintf("R′(68 °F) = ρ/A × lay × tinning × 1000 ft = %.5g Ω·cmil/ft ÷ %.0f cmil × %g × %g × 1000 ft = %s",
+			rho, area, rr.LayFactor, tf, num(r20, ru))
+	}
+	if res.FromTable {
+		return fmt.Sprintf("R′(68 °F) from the rulebook resistance table for %s: %g Ω/km × 0.3048 = %s", size.Text, sig(res.R20*1000, 5), num(r20, ru))
+	}
+	return fmt.Sprintf("nominal area: R′(68 °F) = ρ/A × tinning × 1000 ft = %.5g Ω·cmil/ft ÷ %.0f cmil × %g × 1000 ft = %s (size not in the rulebook table)",
+		rho, area, tf, num(r20, ru))
 }
 
 // allRuns are the positive runs, then the negative conductors the design

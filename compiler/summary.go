@@ -222,11 +222,18 @@ func budgetTable(budget []energy.ScenarioEnergy) []result.ScenarioBudget {
 func harvestTable(harvest []energy.ArrayHarvest) []result.ArrayHarvest {
 	var out []result.ArrayHarvest
 	for _, ah := range harvest {
-		ra := result.ArrayHarvest{Array: ah.Name, Controller: ah.Controller, Kind: ah.Kind, Alternative: checks.OtherKind(ah.Kind)}
+		ra := result.ArrayHarvest{Array: ah.Name, Controller: ah.Controller, Kind: ah.Kind, Alternative: checks.OtherKind(ah.Kind),
+			STC: roundTo(ah.STC, 3), NOCT: roundTo(ah.Cell.NOCT, 2), NOCTRise: ah.Cell.Rise, Standoff: roundTo(ah.Cell.Standoff, 4)}
+		ra.CellModel = "SAM NOCT"
+		if !ah.Cell.SAM {
+			ra.CellModel = "Sandia, " + ah.Cell.SandiaName
+		}
 		for _, m := range ah.Months {
 			ra.Months = append(ra.Months, result.MonthHarvest{
-				Month: m.Month, Irradiation: m.H, POA: roundTo(m.POA, 3), Wh: roundTo(m.Wh, 1),
+				Month: m.Month, Irradiation: m.H, POA: roundTo(m.POA, 4), Wh: roundTo(m.Wh, 1),
 				AltWh: roundTo(m.AltWh, 1), Clipped: roundTo(m.Clipped, 1), PeakCell: roundTo(m.PeakCell, 1),
+				Cell: roundTo(m.Cell, 2), Ambient: roundTo(m.Ambient, 2), TempFactor: roundTo(m.TempFactor, 5),
+				Wiring: roundTo(m.Wiring, 5), Capped: roundTo(m.Capped, 1),
 			})
 		}
 		out = append(out, ra)

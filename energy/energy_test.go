@@ -163,118 +163,6 @@ func TestColdVocTable(t *testing.T) {
 	}
 }
 
-func flat(n int, load, solar float64) []Hour {
-	h := make([]Hour, n)
-	for i := range h {
-		h[i] = Hour{Load: load, Solar: solar}
-	}
-	return h
-}
-
-// TestSimulateNoCharge: with no charge source the state of charge falls by
-// exactly the loads' energy down to the floor, where the run records the
-// unmet energy.
-func TestSimulateNoCharge(t *testing.T) {
-	ch := Chemistry{LeadAcid: true, Efficiency: 0.85, TaperFrom: 0.8, TaperEnd: 0.05, MaxCharge: math.Inf(1)}
-	const stored, floor, load = 1000.0, 500.0, 30.0
-	s := Simulate(flat(24, load, 0), stored, floor, ch)
-	for i, soc := range s.SoC {
-		want := math.Max(floor, stored-load*float64(i+1)) / stored
-		if math.Abs(soc-want) > 1e-12 {
-			t.Fatalf("hour %d: SoC %v, want %v", i, soc, want)
-		}
-	}
-	// 24 × 30 = 720 Wh asked, 500 Wh above the floor: 220 Wh unmet.
-	if math.Abs(s.Unmet-220) > 1e-9 {
-		t.Errorf("unmet = %v Wh, want 220", s.Unmet)
-	}
-	if s.FirstBreach != 16 { // the 17th hour takes it below 500 Wh
-		t.Errorf("first breach at hour %d, want 16", s.FirstBreach)
-	}
-}
-
-// TestSimulateConservesEnergy: hour by hour, what goes in less what goes out
-// equals the change of stored energy, the charge losses, the energy not
-// taken and the unmet load accounted for.
-func TestSimulateConservesEnergy(t *testing.T) {
-	hours := make([]Hour, 24*20)
-	for i := range hours {
-		hod := i % 24
-		hours[i].Load = 40 + 20*math.Sin(float64(i)/7)
-		if hod >= 7 && hod <= 17 {
-			hours[i].Solar = 300 * math.Sin(math.Pi*float64(hod-6)/12)
-		}
-		if i%48 == 10 {
-			hours[i].Charger = 700
-		}
-	}
-	for _, ch := range []Chemistry{
-		{LeadAcid: true, Efficiency: 0.85, TaperFrom: 0.8, TaperEnd: 0.05, MaxCharge: 400},
-		{Efficiency: 0.97, MaxCharge: math.Inf(1)},
-	} {
-		const stored, floor = 2000.0, 1000.0
-		s := Simulate(hours, stored, floor, ch)
-		start, end := stored, s.SoC[len(s.SoC)-1]*stored
-		// ΔE = stored in − drawn + unmet (the load the bank could not give).
-		if got, want := end-start, s.Charged-s.Drawn+s.Unmet; math.Abs(got-want) > 1e-6 {
-			t.Errorf("%+v: ΔE = %v, ledger %v", ch, got, want)
-		}
-		if got, want := s.Offered, s.Charged+s.ChargeLoss+s.Spilled; math.Abs(got-want) > 1e-6 {
-			t.Errorf("%+v: offered %v ≠ stored %v + losses %v + not taken %v", ch, got, s.Charged, s.ChargeLoss, s.Spilled)
-		}
-		for i, soc := range s.SoC {
-			if soc > 1+1e-12 || soc < floor/stored-1e-12 {
-				t.Fatalf("hour %d: SoC %v outside [floor, full]", i, soc)
-			}
-		}
-	}
-}
-
-// TestSimulateMoreArrayNeverWorse: doubling the array never lowers the
-// lowest state of charge.
-func TestSimulateMoreArrayNeverWorse(t *testing.T) {
-	ch := Chemistry{LeadAcid: true, Efficiency: 0.85, TaperFrom: 0.8, TaperEnd: 0.05, MaxCharge: 500}
-	for _, base := range []float64{0, 20, 60, 150, 400} {
-		hours := make([]Hour, 24*14)
-		for i := range hours {
-			hod := i % 24
-			hours[i].Load = 60
-			if hod >= 8 && hod <= 16 {
-				hours[i].Solar = base * math.Sin(math.Pi*float64(hod-7)/10)
-			}
-		}
-		one := Simulate(hours, 3000, 1500, ch)
-		for i := range hours {
-			hours[i].Solar *= 2
-		}
-		two := Simulate(hours, 3000, 1500, ch)
-		if two.Lowest < one.Lowest-1e-12 {
-			t.Errorf("array %v W: doubled gives lowest %v, below %v", base, two.Lowest, one.Lowest)
-		}
-		if two.Unmet > one.Unmet+1e-9 {
-			t.Errorf("array %v W: doubled leaves %v Wh unmet, more than %v", base, two.Unmet, one.Unmet)
-		}
-	}
-}
-
-// BenchmarkSimulateYear runs a year of hours; it must take well under a
-// millisecond.
-func BenchmarkSimulateYear(b *testing.B) {
-	hours := make([]Hour, 365*24)
-	for i := range hours {
-		hod := i % 24
-		hours[i].Load = 50
-		if hod >= 7 && hod <= 17 {
-			hours[i].Solar = 250 * math.Sin(math.Pi*float64(hod-6)/12)
-		}
-	}
-	ch := Chemistry{LeadAcid: true, Efficiency: 0.85, TaperFrom: 0.8, TaperEnd: 0.05, MaxCharge: 500}
-	b.ReportAllocs()
-	for b.Loop() {
-		Simulate(hours, 4000, 2000, ch)
-	}
-}
-
 // TestClearSkyBound keeps the fast bound within 1 % of the clear-sky day
 // integrated over the full SPA position (both Haurwitz).
 func TestClearSkyBound(t *testing.T) {
@@ -300,7 +188,7 @@ var defaultRulebookOnce = sync.OnceValues(func() (schema.Rulebook, error) {
 })
 
 // defaultRulebook is ampwright's built-in rulebook, decoded from the schema.
-func defaultRulebook(t *testing.T) schema.Rulebook {
+func defaultRulebook(t testing.TB) schema.Rulebook {
 	t.Helper()
 	r, err := defaultRulebookOnce()
 	if err != nil {

@@ -82,7 +82,11 @@ func TemperatureFactor(gamma, tc float64) float64 {
 	return 1 + gamma*(tc-STCTemperature)
 }
 
-// ArrayMonth is one array's mean day in one month.
+// ArrayMonth is one array's mean day in one month, with what a reviewer
+// needs to recompute its harvest by hand:
+//
+//	MPPT: Wh = P_STC × POA ÷ 1 kW/m² × TempFactor × (1 − shading)(1 − soiling)(1 − mismatch) × Wiring × η − Clipped
+//	PWM:  Wh = V_charge × Isc × N_strings × POA ÷ 1 kW/m² × TempFactor × (1 − shading)(1 − soiling)(1 − mismatch) × Wiring − Capped − Clipped
 type ArrayMonth struct {
 	Month string
 	// H is the designer's daily horizontal irradiation, kWh/m²/day, and
@@ -97,8 +101,21 @@ type ArrayMonth struct {
 	AltWh float64
 	// Clipped is the energy lost to the controller's output limit, Wh.
 	Clipped float64
-	// PeakCell is the highest cell temperature of the day, °C.
-	PeakCell float64
+	// PeakCell is the highest cell temperature of the day, °C; Cell the
+	// day's mean weighted by the irradiance on the array (so that
+	// Σ G × (1 + γ(Tc − 25)) = POA × (1 + γ(Cell − 25))), Ambient the
+	// ambient temperature it was found at.
+	PeakCell, Cell, Ambient float64
+	// TempFactor is 1 + γ × (Cell − 25 °C) for MPPT, 1 + α × (Cell − 25 °C)
+	// for PWM.
+	TempFactor float64
+	// Wiring is the energy-weighted fraction the wiring's drops leave:
+	// (1 − ΔV_pv × G/1000)(1 − ΔV_charge × G/1000) for MPPT, the charge
+	// run's alone for PWM.
+	Wiring float64
+	// Capped is what a PWM controller would take above the array's
+	// maximum power, and is not credited, Wh.
+	Capped float64
 }
 
 // ArrayHarvest is one array's harvest by month.
@@ -111,61 +128,158 @@ type ArrayHarvest struct {
 	Months []ArrayMonth
 	// Losses are the derating fractions applied, for reports.
 	Losses string
+	// What the month's figures were found from: the array's power at STC
+	// (W), its modules' short-circuit current (A) and its strings, the
+	// charging voltage a PWM controller holds it at (V), the power and
+	// current coefficients (per kelvin; AlphaGiven false where the module
+	// gives none), the loss fractions, the controller's efficiency, the
+	// wiring's fractional drops at the array's rated current, the cell
+	// temperature model and the wind it was taken at (m/s).
+	STC, Isc        float64
+	Strings         int
+	VCharge         float64
+	Gamma, Alpha    float64
+	AlphaGiven      bool
+	Shading         float64
+	Soiling         float64
+	Mismatch        float64
+	Efficiency      float64
+	PVDrop, ChgDrop float64
+	Cell            CellModel
+	Wind            float64
 }
 
-// SandiaFor picks the Sandia module-temperature parameters for a module's
-// construction and its mounting: rail, arch, davit and bimini mounts are
-// open to the air behind, deck, coachroof and hardtop mounts close to a
-// surface; a flexible module glued down is insulated behind.
-func SandiaFor(construction, mount string) (solar.SandiaParams, string) {
-	open := mount == "arch" || mount == "rail" || mount == "davits" || mount == "bimini"
+// CellModel is how hot an array's cells run: the SAM NOCT model with the
+// module's NOCT raised for the array's mounting (the installed NOCT), or,
+// for a module that gives no NOCT, the Sandia model for its construction
+// and mounting.
+type CellModel struct {
+	// SAM is true for the SAM NOCT model, false for Sandia.
+	SAM bool
+	// NOCT is the module's, and Rise what its mounting adds, °C; Standoff
+	// the gap behind the modules, m, and StandoffFrom where it comes from.
+	NOCT, Rise   float64
+	Standoff     float64
+	StandoffFrom string
+	// Efficiency is the module's at STC (SAM).
+	Efficiency float64
+	// Sandia are the Sandia coefficients and SandiaName their set.
+	Sandia     solar.SandiaParams
+	SandiaName string
+}
+
+// samTauAlpha is SAM's transmittance–absorptance product, and samStoreys
+// its array height: a boat's array is within one storey of the water.
+const (
+	samTauAlpha = 0.9
+	samStoreys  = 1
+)
+
+// CellModelFor is the cell temperature model of array a (at CUE path
+// path) under rules. Its standoff, else the rulebook's for its mount (a
+// flexible module's is the rulebook's flexible gap), sets the installed
+// NOCT's rise (SAM); for a module without NOCT it picks the Sandia
+// coefficients: open rack where the gap adds nothing, else close roof
+// mount (glass/glass) or insulated back (glass/polymer and flexible
+// modules).
+func CellModelFor(rules schema.Rulebook, path string, a schema.Array) CellModel {
+	cm := CellModel{Efficiency: ModuleEfficiency(a.Module)}
+	ct := rules.CellTemperature
 	switch {
-	case construction == "flexible":
-		return solar.SandiaGlassPolymerInsulated, "Sandia, glass/polymer insulated back (flexible module)"
-	case construction == "glass-glass" && open:
-		return solar.SandiaGlassGlassOpenRack, "Sandia, glass/glass open rack"
-	case construction == "glass-glass":
-		return solar.SandiaGlassGlassCloseRoof, "Sandia, glass/glass close roof mount"
-	case open:
-		return solar.SandiaGlassPolymerOpenRack, "Sandia, glass/polymer open rack"
+	case a.Standoff != nil:
+		cm.Standoff, cm.StandoffFrom = a.Standoff.Metres(), path+".standoff"
+	case ct == nil:
+		cm.Standoff, cm.StandoffFrom = 1, "no cellTemperature table: taken as open"
+	case a.Module.Construction == "flexible":
+		cm.Standoff, cm.StandoffFrom = ct.Flexible.Metres(), "rules.cellTemperature.flexible"
+	default:
+		if s, ok := ct.Standoff[a.Mount]; ok {
+			cm.Standoff, cm.StandoffFrom = s.Metres(), "rules.cellTemperature.standoff."+a.Mount
+		} else {
+			cm.Standoff, cm.StandoffFrom = 0, "no gap given for mount "+a.Mount+": taken as flush"
+		}
 	}
-	return solar.SandiaGlassPolymerInsulated, "Sandia, glass/polymer insulated back (close to a surface)"
+	if ct != nil {
+		cm.Rise = ct.RiseAt(cm.Standoff)
+	}
+	if a.Module.NOCT != nil {
+		cm.SAM = true
+		cm.NOCT = a.Module.NOCT.Celsius()
+		return cm
+	}
+	open := cm.Rise == 0
+	switch {
+	case a.Module.Construction == "flexible":
+		cm.Sandia, cm.SandiaName = solar.SandiaGlassPolymerInsulated, "glass/polymer insulated back (flexible module)"
+	case a.Module.Construction == "glass-glass" && open:
+		cm.Sandia, cm.SandiaName = solar.SandiaGlassGlassOpenRack, "glass/glass open rack"
+	case a.Module.Construction == "glass-glass":
+		cm.Sandia, cm.SandiaName = solar.SandiaGlassGlassCloseRoof, "glass/glass close roof mount"
+	case open:
+		cm.Sandia, cm.SandiaName = solar.SandiaGlassPolymerOpenRack, "glass/polymer open rack"
+	default:
+		cm.Sandia, cm.SandiaName = solar.SandiaGlassPolymerInsulated, "glass/polymer insulated back (close to a surface)"
+	}
+	return cm
+}
+
+// Temp is the cell temperature, °C, at irradiance poa (W/m²) on the array,
+// ambient temperature (°C) and wind speed (m/s, at 10 m).
+func (c CellModel) Temp(poa, ambient, wind float64) float64 {
+	if c.SAM {
+		return solar.CellTempSAM(poa, 0, ambient, wind, c.NOCT+c.Rise, c.Efficiency, samTauAlpha, samStoreys)
+	}
+	p := c.Sandia
+	return solar.SandiaCellTemp(poa, ambient, wind, p.A, p.B, p.DeltaT)
 }
 
 // Harvest computes each array's mean day in every month in use: hourly
 // horizontal irradiance from the month's daily value (Collares-Pereira &
-// Rabl), beam and diffuse by Erbs, plane of array by the isotropic model
-// (averaged over azimuth when the boat swings at anchor), cell temperature
-// by NOCT or Sandia, the module's power coefficient, shading, soiling,
-// mismatch, the wiring's loss, and the controller: an MPPT controller
-// tracks the array's maximum power at its efficiency, a PWM one holds the
-// array at the charging voltage. Output is clipped at the controller's
-// rated output.
+// Rabl, scaled so the hours sum to it), beam and diffuse by Erbs, plane of
+// array by the isotropic model (averaged over azimuth when the boat swings
+// at anchor), cell temperature by the array's CellModel (the installed
+// NOCT for its mounting, or Sandia), the module's power coefficient,
+// shading, soiling, mismatch, the wiring's loss, and the controller: an
+// MPPT controller tracks the array's maximum power at its efficiency, a
+// PWM one holds the array at the charging voltage. Output is clipped at
+// the controller's rated output.
 func Harvest(sys *model.System) []ArrayHarvest {
 	d := sys.Design
 	var out []ArrayHarvest
 	for _, arr := range sys.Arrays {
 		name, a := arr.Name, *arr.Spec
 		ctrl := arr.Controller.Spec.Part
-		ah := ArrayHarvest{Name: name, Controller: a.Controller, Kind: ctrl.Kind, Bank: arr.Controller.Node.Bank}
-		loss := (1 - a.Shading) * (1 - a.Soiling) * (1 - a.Mismatch)
+		bank := arr.Controller.Node.Bank
+		ah := ArrayHarvest{
+			Name: name, Controller: a.Controller, Kind: ctrl.Kind, Bank: bank,
+			STC: a.Module.Pmax.Watts() * float64(a.Series*a.Strings), Isc: a.Module.Isc.Amps(), Strings: a.Strings,
+			VCharge: ChargeVoltage(bank, sys.Rules), Gamma: a.Module.GammaPmax.PerKelvin(), Alpha: alphaDefault,
+			Shading: a.Shading, Soiling: a.Soiling, Mismatch: a.Mismatch, Efficiency: ctrl.Efficiency,
+			Cell: CellModelFor(sys.Rules, arr.Path, a), Wind: d.Site.WindSpeed,
+		}
+		if a.Module.AlphaIsc != nil {
+			ah.Alpha, ah.AlphaGiven = a.Module.AlphaIsc.PerKelvin(), true
+		}
 		ah.Losses = fmt.Sprintf("shading %g, soiling %g, mismatch %g", a.Shading, a.Soiling, a.Mismatch)
-		pvDrop, chargeDrop := wiringLosses(sys, name, a.Controller)
+		ah.PVDrop, ah.ChgDrop = wiringLosses(sys, name, a.Controller)
 		for _, m := range d.Site.Months {
 			mi := MonthIndex(m)
 			if mi < 0 {
 				continue
 			}
 			h := d.Site.Irradiation.Monthly[m].KWhPerM2Day()
-			mine, other := arrayDay(sys, ah.Bank, a, ctrl, mi, h, loss, pvDrop, chargeDrop)
+			mine := arrayDay(sys, &ah, a, ctrl, mi, h)
 			mine.Month, mine.H = m, h
-			mine.AltWh = other.Wh
 			ah.Months = append(ah.Months, mine)
 		}
 		out = append(out, ah)
 	}
 	return out
 }
+
+// alphaDefault is the rise of Isc with temperature where a module gives no
+// coefficient: about 0.05 %/°C (common practice).
+const alphaDefault = 0.0005
 
 // wiringLosses are the fractional voltage drops, at the array's rated
 // current, of the runs between the array and its controller and between
@@ -185,75 +299,107 @@ func wiringLosses(sys *model.System, array, controller string) (pv, charge float
 	return pv, charge
 }
 
-// arrayDay models one mean day, for the array's own controller and for the
-// other kind.
-func arrayDay(sys *model.System, bank *model.Bank, a schema.Array, ctrl schema.ControllerPart, month int, h, loss, pvDrop, chargeDrop float64) (mine, other ArrayMonth) {
+// HourlyHorizontal is the mean day's horizontal irradiance hour by hour
+// of solar time, W/m² (so Wh/m² in the hour), for daily irradiation h
+// (kWh/m²/day) with the sunset hour angle ws (degrees): each hour's share
+// r_t of the day by Collares-Pereira & Rabl at the middle of the hour,
+// scaled so that the shares sum to one and the hours add up to the
+// designer's figure (the shares at the middles of the hours alone sum to
+// 0.97–1.03 of it, by latitude and season).
+func HourlyHorizontal(h, ws float64) [24]float64 {
+	var share [24]float64
+	var sum float64
+	for hour := range 24 {
+		w := 15 * (float64(hour) + 0.5 - 12)
+		if math.Abs(w) >= ws {
+			continue
+		}
+		share[hour] = solar.CollaresPereiraRabl(w, ws)
+		sum += share[hour]
+	}
+	if sum <= 0 {
+		return [24]float64{}
+	}
+	for hour := range share {
+		share[hour] *= h * 1000 / sum
+	}
+	return share
+}
+
+// arrayDay models one mean day of array a, whose other figures are in ah,
+// for its own controller; AltWh is the other kind's.
+func arrayDay(sys *model.System, ah *ArrayHarvest, a schema.Array, ctrl schema.ControllerPart, month int, h float64) ArrayMonth {
 	site := sys.Design.Site
 	date := meanDate(month)
 	doy := solar.DayOfYear(date)
 	decl := solar.DeclinationCooper(doy)
 	ws := solar.SunsetHourAngle(site.Latitude, decl)
-	ambient := site.DesignHigh.Celsius()
+	var mine ArrayMonth
+	mine.Ambient = site.DesignHigh.Celsius()
 	if t, ok := site.DayAmbient[Months[month]]; ok {
-		ambient = t.Celsius()
+		mine.Ambient = t.Celsius()
 	}
-	vcharge := ChargeVoltage(bank, sys.Rules)
-	mod := a.Module
-	n := float64(a.Series * a.Strings)
-	pstc := mod.Pmax.Watts() * n
-	gamma := mod.GammaPmax.PerKelvin()
-	alpha := 0.0005 // common practice: Isc rises about 0.05 %/°C where no coefficient is given
-	if mod.AlphaIsc != nil {
-		alpha = mod.AlphaIsc.PerKelvin()
-	}
-	sandia, _ := SandiaFor(mod.Construction, a.Mount)
-	limit := ctrl.Output.Amps() * vcharge
-	var poa float64
-	for hour := 0; hour < 24; hour++ {
+	loss := (1 - ah.Shading) * (1 - ah.Soiling) * (1 - ah.Mismatch)
+	limit := ctrl.Output.Amps() * ah.VCharge
+	pwmKind := ctrl.Kind == "pwm"
+	var poa, poaCell, base, wired float64
+	ghi := HourlyHorizontal(h, ws)
+	for hour := range 24 {
+		if ghi[hour] <= 0 {
+			continue
+		}
 		w := 15 * (float64(hour) + 0.5 - 12)
-		if math.Abs(w) >= ws {
-			continue
-		}
-		ghi := h * 1000 * solar.CollaresPereiraRabl(w, ws) // Wh/m² in the hour = mean W/m²
 		cosz := math.Sin(rad(site.Latitude))*math.Sin(rad(decl)) + math.Cos(rad(site.Latitude))*math.Cos(rad(decl))*math.Cos(rad(w))
-		if cosz <= 0 || ghi <= 0 {
-			continue
-		}
-		zen := deg(math.Acos(cosz))
-		dni, dhi, _ := solar.Erbs(ghi, zen, doy)
-		g := planeOfArray(site.Latitude, decl, w, a, ghi, dni, dhi, zen, site.Albedo)
+		zen := deg(math.Acos(math.Min(1, cosz)))
+		dni, dhi, _ := solar.Erbs(ghi[hour], zen, doy)
+		g := planeOfArray(site.Latitude, decl, w, a, ghi[hour], dni, dhi, zen, site.Albedo)
+		tc := ah.Cell.Temp(g, mine.Ambient, ah.Wind)
 		poa += g
-		var tc float64
-		if mod.NOCT != nil {
-			tc = solar.CellTempNOCT(g, ambient, mod.NOCT.Celsius())
-		} else {
-			tc = solar.SandiaCellTemp(g, ambient, site.WindSpeed, sandia.A, sandia.B, sandia.DeltaT)
-		}
+		poaCell += g * tc
 		mine.PeakCell = math.Max(mine.PeakCell, tc)
-		// MPPT: the array's maximum power at this irradiance and temperature.
-		pm := pstc * g / STCIrradiance * TemperatureFactor(gamma, tc) * loss
-		mppt := pm * (1 - pvDrop*g/1000) * ctrl.Efficiency * (1 - chargeDrop*g/1000)
-		// PWM: the strings' current, near Isc, at the charging voltage.
-		ipv := mod.Isc.Amps() * float64(a.Strings) * g / 1000 * (1 + alpha*(tc-25)) * loss
-		pwm := vcharge * ipv * (1 - chargeDrop*g/1000)
-		if pwm > pm {
-			pwm = pm // a PWM controller cannot take more than the array's maximum power
-		}
+		// MPPT: the array's maximum power at this irradiance and
+		// temperature, less the drops of its wiring, at the controller's
+		// efficiency.
+		pm := ah.STC * g / STCIrradiance * TemperatureFactor(ah.Gamma, tc) * loss
+		pmWired := pm * (1 - ah.PVDrop*g/1000) * (1 - ah.ChgDrop*g/1000)
+		mppt := pmWired * ctrl.Efficiency
+		// PWM: the strings' current, near Isc, at the charging voltage,
+		// never more than the array's maximum power.
+		pwmBase := ah.VCharge * ah.Isc * float64(ah.Strings) * g / 1000 * (1 + ah.Alpha*(tc-STCTemperature)) * loss
+		pwmWired := pwmBase * (1 - ah.ChgDrop*g/1000)
+		pwm := math.Min(pwmWired, pm)
 		p, q := mppt, pwm
-		if ctrl.Kind == "pwm" {
+		if pwmKind {
 			p, q = pwm, mppt
+			base += pwmBase
+			wired += pwmWired
+			mine.Capped += pwmWired - pwm
+		} else {
+			base += pm
+			wired += pmWired
 		}
 		if p > limit {
 			mine.Clipped += p - limit
 			p = limit
 		}
-		q = math.Min(q, limit)
 		mine.Hourly[hour] = p
 		mine.Wh += p
-		other.Wh += q
+		mine.AltWh += math.Min(q, limit)
 	}
 	mine.POA = poa / 1000
-	return mine, other
+	mine.Cell, mine.Wiring = mine.Ambient, 1
+	if poa > 0 {
+		mine.Cell = poaCell / poa
+	}
+	coeff := ah.Gamma
+	if pwmKind {
+		coeff = ah.Alpha
+	}
+	mine.TempFactor = 1 + coeff*(mine.Cell-STCTemperature)
+	if base > 0 {
+		mine.Wiring = wired / base
+	}
+	return mine
 }
 
 // planeOfArray is the irradiance on the array: isotropic sky, averaged

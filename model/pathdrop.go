@@ -1,7 +1,5 @@
 package model
 
-import "fmt"
-
 // DropTerm is one conductor's share of a path's voltage drop.
 type DropTerm struct {
 	// Run is the conductor's run; Return is true for a return conductor of
@@ -11,16 +9,6 @@ type DropTerm struct {
 	// Current (A), Length (m) and R (Ω/m at the conductor's temperature)
 	// give Volts = Current × Length × R.
 	Current, Length, R, Volts float64
-}
-
-// Describe writes the term as it is worked: "fridge-run return 4 A × 3 m
-// × 5.74 mΩ/m".
-func (t DropTerm) Describe() string {
-	side := ""
-	if t.Return && t.Run.Role != Return {
-		side = " return"
-	}
-	return fmt.Sprintf("%s%s %.4g A × %.4g m × %.4g mΩ/m", t.Run.Name, side, t.Current, t.Length, t.R*1000)
 }
 
 // PathDrop is the voltage drop from the source of run r's side (its bank,

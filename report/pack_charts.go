@@ -161,16 +161,14 @@ func (p *pack) harvestChart() {
 	d.y = ly + 6
 }
 
-// socChart draws the state of charge hour by hour over the design voyage,
-// with the depth-of-discharge floor dashed.
-func (p *pack) socChart() {
+// socChart draws a bank's state of charge hour by hour over the design
+// voyage, h mm high, with its depth-of-discharge floor dashed.
+func (p *pack) socChart(v result.BankVoyage, start, title string, h float64) {
 	d := p.d
-	v := p.r.Voyage
-	if v == nil || len(v.SoC) == 0 {
+	if len(v.SoC) == 0 {
 		return
 	}
-	const h = 70.0
-	p.sub("State of charge over the design voyage", h+20)
+	p.sub(title, h+20)
 	x0, x1 := d.left()+12, d.right()-2
 	y0 := d.y + 7
 	y1 := y0 + h
@@ -208,7 +206,9 @@ func (p *pack) socChart() {
 	d.line(x0, fy, x1, fy, lineStyle{w: 0.5, c: colFail, dash: 1.8})
 	d.font(bold, 6.5)
 	d.textColor(colFail)
-	d.textIn(x1-50, fy-4, 50, 3.5, fmt.Sprintf("floor %s %%", fnum(v.Floor)), "R")
+	floorLab := fmt.Sprintf("floor %s %%", fnum(v.Floor))
+	fw := d.textW(floorLab) + 1
+	d.textIn(x1-50, fy-4, 50, 3.5, floorLab, "R")
 
 	pts := make([]pt, 0, n)
 	for i, s := range v.SoC {
@@ -216,7 +216,15 @@ func (p *pack) socChart() {
 	}
 	d.polyline(pts, lineStyle{w: 0.45, c: colAccent, round: true})
 
-	// The lowest point.
+	// The lowest point, if the bank fell at all.
+	if v.Lowest >= 100 {
+		d.font(regular, 6.5)
+		d.textColor(colMuted)
+		d.textIn(x0, y1+4.5, x1-x0, 3.5, fmt.Sprintf("hours from the start of the voyage in %s; a grid line each day", start), "C")
+		d.textColor(colInk)
+		d.y = y1 + 10
+		return
+	}
 	lh := float64(v.LowestDay*24 + v.LowestHour)
 	lx, ly := xOf(lh), yOf(v.Lowest)
 	c := colInk
@@ -228,14 +236,21 @@ func (p *pack) socChart() {
 	d.textColor(c)
 	lab := fmt.Sprintf("lowest %s %% on day %d at %02d:00", fixed(v.Lowest, 1), v.LowestDay+1, v.LowestHour)
 	lw := d.textW(lab) + 1
-	tx := math.Min(lx+1.5, x1-lw)
+	// Right of the point, or left of it near the chart's end; below it,
+	// unless that runs off the chart or onto the floor's label.
+	tx := lx + 1.5
+	if tx+lw > x1 {
+		tx = lx - 1.5 - lw
+	}
 	ty := ly + 1.5
-	if ty+3.5 > y1 {
+	if ty+3.5 > y1 || (ty+3.5 > fy-0.5 && ty < fy+0.5) || (tx+lw > x1-fw && ty+3.5 > fy-4 && ty < fy) {
 		ty = ly - 5
 	}
+	// On white, so that the curve does not run through it.
+	d.box(tx-0.3, ty+0.2, lw+0.6, 3.1, &colWhite, lineStyle{})
 	d.textIn(tx, ty, lw, 3.5, lab, "L")
 	d.textColor(colMuted)
-	d.textIn(x0, y1+4.5, x1-x0, 3.5, fmt.Sprintf("hours from the start of the voyage in %s; a grid line each day", v.Start), "C")
+	d.textIn(x0, y1+4.5, x1-x0, 3.5, fmt.Sprintf("hours from the start of the voyage in %s; a grid line each day", start), "C")
 	d.textColor(colInk)
 	d.y = y1 + 10
 }

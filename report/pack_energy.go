@@ -172,6 +172,9 @@ func (p *pack) solar() {
 		d.y += 1
 		p.note(7.5, colMuted, "The bold row is the design's controller; the grey row the same array with the other kind of controller (MPPT tracks the module's maximum power point, PWM pins the array to battery voltage).")
 		d.y += 2
+		for _, a := range r.Harvest {
+			p.harvestSheet(a, months)
+		}
 	}
 
 	if len(months) > 0 && len(r.Budget) > 0 {
@@ -204,7 +207,8 @@ func (p *pack) solar() {
 	}
 }
 
-// voyage is the state of charge over the design voyage.
+// voyage is the state of charge over the design voyage: each bank's
+// finding, its state of charge and the energy ledgers.
 func (p *pack) voyage() {
 	d := p.d
 	p.start("voyage", "Design voyage: state of charge", false)
@@ -213,10 +217,27 @@ func (p *pack) voyage() {
 		p.note(9, colMuted, "The design declares no design voyage.")
 		return
 	}
+	banks := v.Banks
+	if len(banks) == 0 {
+		banks = []result.BankVoyage{v.BankVoyage} // a result from before banks were listed
+	}
+	multi := len(banks) > 1
 	days := float64(v.Hours) / 24
-	p.note(9, colInk, fmt.Sprintf("%s days from %s, hour by hour: loads by scenario, the arrays' output from the hourly irradiance, charge efficiency and the controllers' limits.", fnum(days), v.Start))
+	what := "the bank"
+	if multi {
+		what = "every bank together, with the links between them"
+	}
+	p.note(9, colInk, fmt.Sprintf("%s days from %s, hour by hour, %s: loads by scenario at their times of day, the arrays' output from the hourly irradiance, chargers while they run, what each battery accepts (the kinetic battery model for lead-acid), charge efficiency and Peukert's law. Charge is counted in ampere-hours at each bank's nominal voltage.", fnum(days), v.Start, what))
 	d.y += 2
-	if f, ok := p.finding("voyage.floor", "voyage"); ok {
+	for _, b := range banks {
+		subject := "voyage"
+		if b.Bank != "" && b.Bank != v.Bank {
+			subject = "voyage " + b.Bank
+		}
+		f, ok := p.finding("voyage.floor", subject)
+		if !ok {
+			continue
+		}
 		fill := statusFill(f.Status)
 		if fill == nil {
 			fill = &colPassBg
@@ -234,30 +255,222 @@ func (p *pack) voyage() {
 		d.textColor(colInk)
 		d.y += h + 3
 	}
-	p.socChart()
-	d.y += 3
-	recover := "not full again within the voyage"
-	if v.RecoverDays >= 0 {
-		recover = fnum(v.RecoverDays) + " days"
+	for _, b := range banks {
+		title, h := "State of charge over the design voyage", 70.0
+		if multi {
+			title, h = fmt.Sprintf("State of charge of the %s bank (%s)", b.Bank, b.Role), 42
+			if !b.Checked {
+				title += ": no loads, run but not checked"
+			}
+		}
+		p.socChart(b, v.Start, title, h)
+		d.y += 2
+	}
+	d.y += 1
+
+	cols := []column{{head: "quantity", w: 56}}
+	vw, nw := 30.0, 94.0
+	if multi {
+		vw = min(30, 124/float64(len(banks)))
+		nw = 180 - 56 - vw*float64(len(banks))
+	}
+	for _, b := range banks {
+		head := "value"
+		if multi {
+			head = b.Bank
+		}
+		cols = append(cols, column{head: head, w: vw, align: "R"})
+	}
+	cols = append(cols, column{head: "note", w: nw})
+	row := func(q string, note string, value func(result.BankVoyage) string) trow {
+		r := cellsOf(q)
+		for _, b := range banks {
+			r.cells = append(r.cells, cell{s: value(b)})
+		}
+		r.cells = append(r.cells, cell{s: note})
+		return r
+	}
+	wh := func(f func(result.BankVoyage) float64) func(result.BankVoyage) string {
+		return func(b result.BankVoyage) string { return fixed(f(b), 0) + " Wh" }
 	}
 	rows := []trow{
-		cellsOf("lowest state of charge", fixed(v.Lowest, 1)+" %", fmt.Sprintf("day %d at %02d:00 (%s, %s)", v.LowestDay+1, v.LowestHour, v.LowestScenario, v.LowestMonth)),
-		cellsOf("depth-of-discharge floor", fnum(v.Floor)+" %", "the bank is not drawn below it"),
-		cellsOf("load unmet at the floor", fixed(v.Unmet, 0)+" Wh", "load energy the bank could not supply"),
-		cellsOf("from the lowest point to full", recover, ""),
-		cellsOf("offered by the sources", fixed(v.Offered, 0)+" Wh", "what the arrays and chargers could deliver"),
-		cellsOf("stored in the bank", fixed(v.Charged, 0)+" Wh", ""),
-		cellsOf("drawn by the loads", fixed(v.Drawn, 0)+" Wh", ""),
-		cellsOf("not taken (bank full or tapering)", fixed(v.Spilled, 0)+" Wh", ""),
-		cellsOf("charge losses", fixed(v.ChargeLoss, 0)+" Wh", ""),
+		row("lowest state of charge", "", func(b result.BankVoyage) string { return fixed(b.Lowest, 1) + " %" }),
+		row("when", "", func(b result.BankVoyage) string {
+			if b.Lowest >= 100 || b.LowestScenario == "" {
+				return "—"
+			}
+			return fmt.Sprintf("day %d %02d:00", b.LowestDay+1, b.LowestHour)
+		}),
+		row("depth-of-discharge floor", "not drawn below it", func(b result.BankVoyage) string { return fnum(b.Floor) + " %" }),
+		row("unmet at the floor", "asked of the bank, not given", wh(func(b result.BankVoyage) float64 { return b.Unmet })),
+		row("from the lowest point to full", "", func(b result.BankVoyage) string {
+			switch {
+			case b.RecoverDays < 0:
+				return "not within"
+			case b.RecoverDays == 0:
+				return "—"
+			}
+			return fnum(b.RecoverDays) + " days"
+		}),
+		row("hours in absorption", "offered more than it accepted, before full", func(b result.BankVoyage) string { return fmt.Sprintf("%d h", b.AbsorptionHours) }),
+		row("offered", "sources, and links into the bank", wh(func(b result.BankVoyage) float64 { return b.Offered })),
+		row("to the loads directly", "while the sources ran", wh(func(b result.BankVoyage) float64 { return b.Direct })),
+		row("stored in the battery", "after acceptance and efficiency", wh(func(b result.BankVoyage) float64 { return b.Charged })),
+		row("charge losses", "ampere-hour efficiency", wh(func(b result.BankVoyage) float64 { return b.ChargeLoss })),
+		row("not taken", "bank full or accepting less", wh(func(b result.BankVoyage) float64 { return b.Spilled })),
+		row("passed on through links", "", wh(func(b result.BankVoyage) float64 { return b.LinkOut })),
+		row("drawn from the battery", "Peukert's law included", wh(func(b result.BankVoyage) float64 { return b.Drawn })),
+		row("of which Peukert", "", wh(func(b result.BankVoyage) float64 { return b.Peukert })),
+		row("held at the start", "", wh(func(b result.BankVoyage) float64 { return b.StartWh })),
+		row("held at the end", "end − start = stored − drawn + unmet", wh(func(b result.BankVoyage) float64 { return b.EndWh })),
 	}
-	if v.Unmet > 0 {
-		rows[2].fill = &colFailBg
+	for i, b := range banks {
+		if b.Unmet > 0 {
+			rows[3].cells[i+1].color = &colFail
+			rows[3].cells[i+1].bold = true
+		}
 	}
 	p.sub("Energy ledger", 20)
-	d.table([]column{{head: "quantity", w: 60}, {head: "value", w: 30, align: "R"}, {head: "note", w: 90}}, rows, tableOpts{size: 8})
+	d.table(cols, rows, tableOpts{size: 7.5, title: "Energy ledger"})
+	if len(v.Links) > 0 {
+		d.y += 3
+		var lr []trow
+		for _, l := range v.Links {
+			lr = append(lr, cellsOf(l.Link, l.Kind, l.From+" → "+l.To, fixed(l.Ah, 0)+" Ah", fixed(l.Loss, 0)+" Wh"))
+		}
+		p.sub("Links between the banks", 16)
+		d.table([]column{{head: "link", w: 40}, {head: "kind", w: 24}, {head: "from → to", w: 56}, {head: "delivered", w: 30, align: "R"}, {head: "lost in it", w: 30, align: "R"}}, lr, tableOpts{size: 7.5})
+	}
 	if f, ok := p.figure("voyage.lowestSoC", "voyage"); ok {
 		d.y += 2
 		p.note(7.5, colMuted, "The lowest state of charge is figure voyage.lowestSoC; its inputs are on the calculation sheets. "+f.Formula)
 	}
+}
+
+// harvestSheet sets out by month how an array's harvest is found, so that
+// a reviewer can recompute it: the irradiation, on the array, the cells'
+// temperature, the temperature factor, the losses, the wiring factor, the
+// controller and what was clipped. The harvest figures on the calculation
+// sheets carry the same inputs with their sources.
+func (p *pack) harvestSheet(a result.ArrayHarvest, months []string) {
+	d := p.d
+	if len(a.Months) == 0 || a.Months[0].TempFactor == 0 {
+		return // a result from before the sheet's figures were kept
+	}
+	imperial := p.r.Design.Units == "imperial"
+	temp := func(c float64) string {
+		if imperial {
+			return fixed(c*1.8+32, 1) + " °F"
+		}
+		return fixed(c, 1) + " °C"
+	}
+	rise := func(k float64) string {
+		if imperial {
+			return fnum(k*1.8) + " °F"
+		}
+		return fnum(k) + " °C"
+	}
+	pwm := a.Kind == "pwm"
+	cols := []column{{head: "", w: 56}}
+	mw := 124 / float64(max(len(months), 6))
+	for _, m := range months {
+		cols = append(cols, column{head: m, w: mw, align: "R"})
+	}
+	fig := map[string]result.Figure{}
+	for _, f := range p.figures(result.FigEnergyHarvest) {
+		fig[f.Subject] = f
+	}
+	input := func(m, name string) (float64, bool) {
+		for _, in := range fig[a.Array+" "+m].Inputs {
+			if in.Name == name {
+				return in.Value, true
+			}
+		}
+		return 0, false
+	}
+	type line struct {
+		name  string
+		value func(result.MonthHarvest) string
+	}
+	tfName := "1 + γ (T̄c − 25 °C)"
+	if imperial {
+		tfName = "1 + γ (T̄c − 77 °F)"
+	}
+	if pwm {
+		tfName = strings.Replace(tfName, "γ", "α", 1)
+	}
+	lines := []line{
+		{"H, kWh/m² a day", func(m result.MonthHarvest) string { return fnum(m.Irradiation) }},
+		{"H_POA on the array", func(m result.MonthHarvest) string { return fixed(m.POA, 3) }},
+		{"ambient", func(m result.MonthHarvest) string { return temp(m.Ambient) }},
+		{"T̄c, cells (mean by irradiance)", func(m result.MonthHarvest) string { return temp(m.Cell) }},
+		{"peak cell temperature", func(m result.MonthHarvest) string { return temp(m.PeakCell) }},
+		{tfName, func(m result.MonthHarvest) string { return fixed(m.TempFactor, 4) }},
+		{"shading × soiling × mismatch", func(m result.MonthHarvest) string {
+			s, _ := input(m.Month, "shading")
+			so, _ := input(m.Month, "soiling")
+			mi, _ := input(m.Month, "mismatch")
+			return fixed((1-s)*(1-so)*(1-mi), 4)
+		}},
+		{"F_wiring", func(m result.MonthHarvest) string { return fixed(m.Wiring, 4) }},
+	}
+	if pwm {
+		lines = append(lines, line{"capped at maximum power, Wh", func(m result.MonthHarvest) string { return fixed(m.Capped, 0) }})
+	} else {
+		lines = append(lines, line{"η controller", func(m result.MonthHarvest) string {
+			v, _ := input(m.Month, "η_controller")
+			return fnum(v)
+		}})
+	}
+	lines = append(lines,
+		line{"clipped at the controller, Wh", func(m result.MonthHarvest) string { return fixed(m.Clipped, 0) }},
+		line{"harvest E, Wh a day", func(m result.MonthHarvest) string { return fixed(m.Wh, 0) }},
+	)
+	var rows []trow
+	for i, l := range lines {
+		row := cellsOf(l.name)
+		for _, mn := range months {
+			c := cell{s: "-"}
+			for _, m := range a.Months {
+				if m.Month == mn {
+					c.s = l.value(m)
+				}
+			}
+			c.bold = i == len(lines)-1
+			row.cells = append(row.cells, c)
+		}
+		row.bold = i == len(lines)-1
+		rows = append(rows, row)
+	}
+	title := fmt.Sprintf("How the harvest of %s is found, by month", a.Array)
+	p.sub(title, 50)
+	formula := "E = P_STC × H_POA ÷ 1 kW/m² × (1 + γ (T̄c − 25 °C)) × (1 − shading)(1 − soiling)(1 − mismatch) × F_wiring × η − clipped"
+	if pwm {
+		formula = "E = V_charge × Isc × N_strings × H_POA ÷ 1 kW/m² × (1 + α (T̄c − 25 °C)) × (1 − shading)(1 − soiling)(1 − mismatch) × F_wiring − capped − clipped"
+	}
+	if imperial {
+		formula = strings.Replace(formula, "25 °C", "77 °F", 1)
+	}
+	model := a.CellModel
+	if strings.HasPrefix(model, "SAM") {
+		model = fmt.Sprintf("the SAM NOCT model at the installed NOCT %s (NOCT %s + %s for a %s gap behind the modules)",
+			temp(a.NOCT+a.NOCTRise), temp(a.NOCT), rise(a.NOCTRise), p.shortIn(a.Standoff))
+	}
+	stc := ""
+	if a.STC > 0 {
+		stc = fmt.Sprintf("P_STC = %s W. ", fnum(a.STC))
+	}
+	p.note(7.5, colInk, formula+". "+stc+"Cells by "+model+"; the wind and the coefficients are on the calculation sheets (energy.harvest).")
+	d.y += 1
+	d.table(cols, rows, tableOpts{size: 7.5, title: title})
+	d.y += 3
+}
+
+// shortIn writes a short distance in inches or millimetres, by the design's
+// units.
+func (p *pack) shortIn(m float64) string {
+	if p.r.Design.Units == "imperial" {
+		return fnum(m/0.0254) + " in"
+	}
+	return fnum(m*1000) + " mm"
 }

@@ -155,18 +155,7 @@ func Text(w io.Writer, r *result.Result) error {
 	}
 
 	if v := r.Voyage; v != nil {
-		p.section(fmt.Sprintf("Design voyage (%d days from %s)", v.Hours/24, v.Start))
-		p.line("lowest state of charge %.1f %% on day %d at %02d:00 (%s, %s); floor %.0f %%", v.Lowest, v.LowestDay+1, v.LowestHour, v.LowestScenario, v.LowestMonth, v.Floor)
-		if v.Unmet > 0 {
-			p.line("the floor is reached: %.0f Wh of load unmet", v.Unmet)
-		}
-		switch {
-		case v.RecoverDays >= 0:
-			p.line("full again %.1f days after the lowest point", v.RecoverDays)
-		case v.Lowest < 99.9:
-			p.line("not full again within the voyage")
-		}
-		p.line("energy: %.0f Wh offered by the sources, %.0f Wh stored, %.0f Wh drawn, %.0f Wh not taken, %.0f Wh charge losses", v.Offered, v.Charged, v.Drawn, v.Spilled, v.ChargeLoss)
+		p.voyage(v)
 	}
 
 	p.section(fmt.Sprintf("Wiring (%d runs)", len(r.Wiring)))
@@ -206,6 +195,69 @@ func Text(w io.Writer, r *result.Result) error {
 	}
 	p.line("%d findings pass; `--format json` lists every one with its figures", passed)
 	return p.err
+}
+
+// voyage writes the design voyage: the primary bank's run, and where
+// there are several banks every bank's and what the links passed.
+func (p *printer) voyage(v *result.Voyage) {
+	p.section(fmt.Sprintf("Design voyage (%s days from %s)", strconv.FormatFloat(float64(v.Hours)/24, 'f', -1, 64), v.Start))
+	if len(v.Banks) > 1 {
+		t := p.table("bank", "lowest", "when", "floor", "unmet", "full again", "offered", "to loads", "stored", "drawn", "not taken", "links in", "out")
+		for _, b := range v.Banks {
+			name := b.Bank
+			if !b.Checked {
+				name += " (no loads)"
+			}
+			t.row(name, fmt.Sprintf("%.1f %%", b.Lowest), voyageWhen(b), fmt.Sprintf("%.0f %%", b.Floor), fmt.Sprintf("%.0f Wh", b.Unmet), recoverText(b),
+				fmt.Sprintf("%.0f Wh", b.Offered), fmt.Sprintf("%.0f Wh", b.Direct), fmt.Sprintf("%.0f Wh", b.Charged), fmt.Sprintf("%.0f Wh", b.Drawn),
+				fmt.Sprintf("%.0f Wh", b.Spilled), fmt.Sprintf("%.0f Wh", b.LinkIn), fmt.Sprintf("%.0f Wh", b.LinkOut))
+		}
+		t.flush()
+		for _, l := range v.Links {
+			p.line("  %s (%s, %s → %s): %.0f Ah delivered, %.0f Wh lost in it", l.Link, l.Kind, l.From, l.To, l.Ah, l.Loss)
+		}
+		p.line("  Wh at each bank's nominal voltage; a bank of no loads is run, not checked")
+		return
+	}
+	b := v.BankVoyage
+	p.line("lowest state of charge %.1f %% on %s; floor %.0f %%", b.Lowest, voyageWhen(b), b.Floor)
+	if b.Unmet > 0 {
+		p.line("the floor is reached: %.0f Wh asked of the bank goes unmet", b.Unmet)
+	}
+	line := recoverText(b)
+	if b.Full > 0 {
+		switch {
+		case b.RecoverDays > 0:
+			line = fmt.Sprintf("full again (%.0f %%) %s after the lowest point", b.Full, recoverText(b))
+		case b.RecoverDays < 0:
+			line = fmt.Sprintf("not full again (%.0f %%) within the voyage", b.Full)
+		default:
+			line = "never below full"
+		}
+		line += fmt.Sprintf("; %d h offered more than it accepted (absorption)", b.AbsorptionHours)
+	}
+	p.line("%s", line)
+	p.line("energy: %.0f Wh offered by the sources: %.0f Wh to the loads directly, %.0f Wh stored, %.0f Wh charge losses, %.0f Wh not taken; %.0f Wh drawn from the bank (Peukert %.0f Wh)",
+		b.Offered, b.Direct, b.Charged, b.ChargeLoss, b.Spilled, b.Drawn, b.Peukert)
+}
+
+// voyageWhen says when a bank was lowest: "day 6 at 05:00 (anchor, Jun)".
+func voyageWhen(b result.BankVoyage) string {
+	if b.LowestScenario == "" || b.Lowest >= 100 {
+		return "-"
+	}
+	return fmt.Sprintf("day %d at %02d:00 (%s, %s)", b.LowestDay+1, b.LowestHour, b.LowestScenario, b.LowestMonth)
+}
+
+// recoverText is how long a bank took to be full again.
+func recoverText(b result.BankVoyage) string {
+	switch {
+	case b.RecoverDays < 0:
+		return "not within the voyage"
+	case b.RecoverDays == 0:
+		return "never below full"
+	}
+	return strconv.FormatFloat(b.RecoverDays, 'f', 1, 64) + " days"
 }
 
 // banksOf is every bank of a result; a result written before banks were

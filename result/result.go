@@ -188,6 +188,15 @@ type ArrayHarvest struct {
 	// Alternative names the other controller kind, whose figure is AltWh.
 	Alternative string         `json:"alternative"`
 	Months      []MonthHarvest `json:"months"`
+	// STC is the array's power at STC, W. CellModel names the cell
+	// temperature model ("SAM NOCT" or "Sandia" and its coefficient set);
+	// NOCT is the module's and NOCTRise what the array's mounting adds to
+	// it, °C, for the gap Standoff (m) behind the modules.
+	STC       float64 `json:"stc,omitempty"`
+	CellModel string  `json:"cellModel,omitempty"`
+	NOCT      float64 `json:"noct,omitempty"`
+	NOCTRise  float64 `json:"noctRise,omitempty"`
+	Standoff  float64 `json:"standoff,omitempty"`
 }
 
 // MonthHarvest is an array's mean day in one month.
@@ -202,14 +211,38 @@ type MonthHarvest struct {
 	Wh      float64 `json:"wh"`
 	AltWh   float64 `json:"altWh"`
 	Clipped float64 `json:"clipped"`
-	// PeakCell is the day's highest cell temperature, °C.
+	// PeakCell is the day's highest cell temperature, °C; Cell its mean
+	// weighted by the irradiance on the array and Ambient the ambient it
+	// was found at, °C.
 	PeakCell float64 `json:"peakCell"`
+	Cell     float64 `json:"cell,omitempty"`
+	Ambient  float64 `json:"ambient,omitempty"`
+	// TempFactor is 1 + γ (Cell − 25 °C) (α for PWM), Wiring the fraction
+	// the wiring's drops leave, weighted by energy, and Capped what a PWM
+	// controller would take above the array's maximum power, Wh.
+	TempFactor float64 `json:"tempFactor,omitempty"`
+	Wiring     float64 `json:"wiring,omitempty"`
+	Capped     float64 `json:"capped,omitempty"`
 }
 
-// Voyage is the state-of-charge run over the design voyage.
+// Voyage is the state-of-charge run over the design voyage. Its
+// top-level figures (embedded BankVoyage) are the primary bank's; Banks
+// lists every bank's run and Links what each link passed.
 type Voyage struct {
 	Start string `json:"start"`
 	Hours int    `json:"hours"`
+	BankVoyage
+	Banks []BankVoyage `json:"banks,omitempty"`
+	Links []LinkVoyage `json:"links,omitempty"`
+}
+
+// BankVoyage is one bank's run over the design voyage.
+type BankVoyage struct {
+	// Bank and Role name the bank; Checked is true when voyage.floor
+	// checks it (it carries loads, or it is the primary bank).
+	Bank    string `json:"bank,omitempty"`
+	Role    string `json:"role,omitempty"`
+	Checked bool   `json:"checked,omitempty"`
 	// Lowest is the lowest state of charge, percent of full, on day
 	// LowestDay (from 0) at LowestHour.
 	Lowest         float64 `json:"lowest"`
@@ -219,18 +252,51 @@ type Voyage struct {
 	LowestMonth    string  `json:"lowestMonth"`
 	// Floor is the depth-of-discharge floor, percent of full.
 	Floor float64 `json:"floor"`
-	// Unmet is the load energy below the floor, Wh.
+	// Unmet is the energy the loads asked of the bank below its floor, Wh.
 	Unmet float64 `json:"unmet"`
-	// RecoverDays is the days from the lowest point to full, −1 if never.
+	// RecoverDays is the days from the lowest point until the bank is
+	// full again (at Full percent), 0 if it never fell below full, −1 if
+	// it was not full again within the voyage.
 	RecoverDays float64 `json:"recoverDays"`
-	// The energy ledger, Wh.
+	Full        float64 `json:"full"`
+	// AbsorptionHours are the hours the bank was offered more charge than
+	// it accepted before it was full.
+	AbsorptionHours int `json:"absorptionHours"`
+	// The energy ledger, Wh at the bank's nominal voltage: what the
+	// sources and links offered, what was stored, drawn, not taken and
+	// lost to charge efficiency; they balance as
+	// endWh − startWh = charged − drawn + unmet and
+	// offered = linkOut + direct + charged + chargeLoss + spilled.
 	Offered    float64 `json:"offered"`
 	Charged    float64 `json:"charged"`
 	Drawn      float64 `json:"drawn"`
 	Spilled    float64 `json:"spilled"`
 	ChargeLoss float64 `json:"chargeLoss"`
+	// Direct is what the sources gave the loads while they ran, Peukert
+	// the part of Drawn that Peukert's law adds, Loads what the loads drew
+	// in all; LinkIn and LinkOut what came in and went out through links.
+	Direct  float64 `json:"direct"`
+	Peukert float64 `json:"peukert"`
+	Loads   float64 `json:"loads"`
+	LinkIn  float64 `json:"linkIn"`
+	LinkOut float64 `json:"linkOut"`
+	StartWh float64 `json:"startWh"`
+	EndWh   float64 `json:"endWh"`
 	// SoC is the state of charge at the end of each hour, percent.
 	SoC []float64 `json:"soc"`
+}
+
+// LinkVoyage is what a link between banks passed over the voyage: the
+// charge delivered into its output bank (a combiner's either way), Ah,
+// and the energy lost in it, Wh (a DC-DC charger's conversion, an
+// isolator's forward drop).
+type LinkVoyage struct {
+	Link string  `json:"link"`
+	Kind string  `json:"kind"`
+	From string  `json:"from"`
+	To   string  `json:"to"`
+	Ah   float64 `json:"ah"`
+	Loss float64 `json:"loss"`
 }
 
 // System is a design's topology: every node the wiring joins, positive

@@ -29,6 +29,8 @@ type Rulebook struct {
 	Demand           *DemandRule       `json:"demand,omitempty"`
 	Shunt            *ShuntRule        `json:"shunt,omitempty"`
 	Lithium          *LithiumRule      `json:"lithium,omitempty"`
+	Acceptance       *AcceptanceRule   `json:"acceptance,omitempty"`
+	CellTemperature  *CellTempRule     `json:"cellTemperature,omitempty"`
 }
 
 // Sourced is where a rulebook table comes from.
@@ -162,7 +164,9 @@ type CapacityTempRule struct {
 	Rows []VocRow `json:"rows"`
 }
 
-// ChargingRule is the charge model of the simulation.
+// ChargingRule holds the charging voltage where a battery gives none. Its
+// efficiencies and taper belong to the first charge model, which
+// AcceptanceRule replaced; they are decoded so that old rulebooks load.
 type ChargingRule struct {
 	Sourced
 	LeadAcidEfficiency float64 `json:"leadAcidEfficiency"`
@@ -170,6 +174,71 @@ type ChargingRule struct {
 	TaperFrom          float64 `json:"taperFrom"`
 	TaperEnd           float64 `json:"taperEnd"`
 	ChargeVoltage      float64 `json:"chargeVoltage"`
+}
+
+// AcceptanceRule is the charge model of the state-of-charge run: the
+// kinetic battery model of each lead-acid chemistry, the ampere-hour
+// efficiency of LiFePO4, and the state of charge counted as full.
+type AcceptanceRule struct {
+	Sourced
+	Flooded           Kinetic `json:"flooded"`
+	AGM               Kinetic `json:"agm"`
+	Gel               Kinetic `json:"gel"`
+	LiFePO4Efficiency float64 `json:"lifepo4Efficiency"`
+	Full              float64 `json:"full"`
+}
+
+// Kinetic holds one chemistry's kinetic battery model (Manwell & McGowan
+// 1993): the available well's share of the capacity c, the rate constant
+// k (per hour) and the ampere-hour efficiency of charge.
+type Kinetic struct {
+	CapacityRatio float64 `json:"capacityRatio"`
+	RateConstant  float64 `json:"rateConstant"`
+	Efficiency    float64 `json:"efficiency"`
+}
+
+// For returns the kinetic model of a lead-acid chemistry, and false for
+// another.
+func (a AcceptanceRule) For(chemistry string) (Kinetic, bool) {
+	switch chemistry {
+	case "flooded":
+		return a.Flooded, true
+	case "agm":
+		return a.AGM, true
+	case "gel":
+		return a.Gel, true
+	}
+	return Kinetic{}, false
+}
+
+// CellTempRule is the rise of the installed NOCT by the gap behind the
+// modules, and the gap taken for each mount.
+type CellTempRule struct {
+	Sourced
+	// Rise lists the NOCT rise (°C) from each standoff up, largest first.
+	Rise     []RiseStep             `json:"rise"`
+	Standoff map[string]unit.Length `json:"standoff"`
+	Flexible unit.Length            `json:"flexible"`
+}
+
+// RiseStep adds Add °C to NOCT from a standoff of From up.
+type RiseStep struct {
+	From unit.Length `json:"from"`
+	Add  float64     `json:"add"`
+}
+
+// RiseAt is the NOCT rise, °C, for a standoff of s metres: the first
+// step whose From s is at or above, else the last.
+func (c CellTempRule) RiseAt(s float64) float64 {
+	for _, r := range c.Rise {
+		if s >= r.From.Metres()-1e-9 {
+			return r.Add
+		}
+	}
+	if len(c.Rise) == 0 {
+		return 0
+	}
+	return c.Rise[len(c.Rise)-1].Add
 }
 
 // SourcesRule holds defaults of charge sources.
@@ -266,6 +335,8 @@ func (r Rulebook) Over(o *Rulebook) Rulebook {
 	pick(&r.Demand, o.Demand)
 	pick(&r.Shunt, o.Shunt)
 	pick(&r.Lithium, o.Lithium)
+	pick(&r.Acceptance, o.Acceptance)
+	pick(&r.CellTemperature, o.CellTemperature)
 	return r
 }
 

@@ -214,6 +214,10 @@ type Array struct {
 	Shading        float64     `json:"shading"`
 	Soiling        float64     `json:"soiling"`
 	Mismatch       float64     `json:"mismatch"`
+
+	// Standoff is the gap behind the modules; nil takes the rulebook's
+	// for the mount.
+	Standoff *unit.Length `json:"standoff,omitempty"`
 }
 
 // Controller is a charge controller fitted to the boat.

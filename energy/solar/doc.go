@@ -25,8 +25,10 @@
 //     global and Liu and Jordan (1960) for diffuse irradiation.
 //   - Irradiance on the plane of the array: the isotropic sky
 //     (Hottel–Woertz, Liu–Jordan) with ground reflection.
-//   - Cell temperature: the NOCT (Ross) model and the Sandia array
-//     performance model of King, Boyson and Kratochvil, SAND2004-3535.
+//   - Cell temperature: the NOCT (Ross) model, the NOCT model of the
+//     System Advisor Model (Gilman et al., NREL/TP-6A20-67399, 2018) with
+//     its installed NOCT, and the Sandia array performance model of King,
+//     Boyson and Kratochvil, SAND2004-3535.
 //
 // Angles are in degrees. Azimuths are clockwise from north (the navigators'
 // convention) unless a name says otherwise. Irradiance is in W/m² and daily

@@ -518,6 +518,17 @@ func TestIsotropicPOA(t *testing.T) {
 	checkAbs(t, "POA night", IsotropicPOA(0, 700, 0, 95, 30, 30, 0.25), 0, 0)
 }
 
+// TestCellTempSAM checks the SAM NOCT model against pvlib-python's tests
+// (tests/test_temperature.py, test_noct_sam and test_noct_sam_options):
+// noct_sam(1000, 25, 1, noct=45, module_efficiency=0.2) = 55.230790492,
+// and with effective irradiance 1100, τα 0.8, array height 2 and a 2 in
+// mounting standoff, whose installed NOCT is 45 + 6 °C (pvlib's
+// _adj_for_mounting_standoff), 60.477703576.
+func TestCellTempSAM(t *testing.T) {
+	checkAbs(t, "noct_sam(1000, 25, 1, 45, 0.2)", CellTempSAM(1000, 0, 25, 1, 45, 0.2, 0.9, 1), 55.230790492, 1e-8)
+	checkAbs(t, "noct_sam options", CellTempSAM(1000, 1100, 25, 1, 45+6, 0.2, 0.8, 2), 60.477703576, 1e-8)
+}
+
 func TestSandia(t *testing.T) {
 	gg := SandiaGlassGlassOpenRack
 	// [pvlib] tests/test_temperature.py and temperature.py docstrings,

@@ -43,3 +43,32 @@ var (
 	SandiaGlassPolymerOpenRack  = SandiaParams{A: -3.56, B: -0.0750, DeltaT: 3}
 	SandiaGlassPolymerInsulated = SandiaParams{A: -2.81, B: -0.0455, DeltaT: 0}
 )
+
+// CellTempSAM returns the cell temperature, °C, by the NOCT cell
+// temperature model of the System Advisor Model (Gilman et al., "SAM
+// Photovoltaic Model Technical Reference Update", NREL/TP-6A20-67399,
+// 2018, section 10.6), as pvlib-python's temperature.noct_sam:
+//
+//	Tc = Ta + G/800 × (NOCT_inst − 20) × (1 − η/(τα × G_eff/G)) × 9.5/(5.7 + 3.8 × v)
+//
+// for the irradiance on the plane of the array poa and the part of it that
+// reaches the cells effective (W/m²; 0 takes it as poa), the ambient
+// temperature (°C), the wind speed (m/s, as weather data give it, at 10 m),
+// the installed NOCT noctInstalled (°C: the module's NOCT raised for its
+// mounting, see the rulebook's cellTemperature table), the module's
+// efficiency at STC, the transmittance–absorptance product tauAlpha (SAM's
+// 0.9) and the array's height in storeys, 1 or 2, which scales the wind to
+// the array: v = 0.51 × wind for 1, 0.61 × wind for 2.
+func CellTempSAM(poa, effective, ambient, wind, noctInstalled, efficiency, tauAlpha float64, storeys int) float64 {
+	ratio := 1.0
+	if effective > 0 && poa > 0 {
+		ratio = effective / poa
+	}
+	v := 0.51 * wind
+	if storeys == 2 {
+		v = 0.61 * wind
+	}
+	heatLoss := 1 - efficiency/(tauAlpha*ratio)
+	windLoss := 9.5 / (5.7 + 3.8*v)
+	return ambient + poa/800*(noctInstalled-20)*heatLoss*windLoss
+}
