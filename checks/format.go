@@ -41,6 +41,7 @@ func lengthText(in *Input, metres float64) string {
 // fnum writes a figure rounded to two places, without trailing zeros or
 // floating-point noise.
 func fnum(v float64) string { return strconv.FormatFloat(round(v, 2), 'f', -1, 64) }
+
 // units writes quantities in a design's preferred units, so that every
 // formula a figure or finding shows can be worked as written in one
 // system: metric (m, mm, °C, mΩ/m), or imperial (ft, in, °F, Ω per
