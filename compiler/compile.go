@@ -19,13 +19,14 @@ package compiler
 
 import (
 	"encoding/json"
+	"errors"
 	"fmt"
-	"os"
 	"path/filepath"
 
 	"cuelang.org/go/cue"
 	"cuelang.org/go/cue/build"
 	"cuelang.org/go/cue/cuecontext"
+	cueerrors "cuelang.org/go/cue/errors"
 	"cuelang.org/go/cue/token"
 
 	"github.com/ampwright/ampwright/checks"
@@ -51,7 +52,13 @@ type Design struct {
 	pos map[string]token.Pos
 	// value is the design unified with the schema.
 	value cue.Value
+	// read returns an input file's contents as loaded.
+	read func(string) ([]byte, error)
 }
+
+// ReadInput returns the contents of one of the design's input files
+// (Files) as they were loaded: the file is not read again.
+func (d *Design) ReadInput(file string) ([]byte, error) { return d.read(file) }
 
 // Position returns the design's file:line:col for a CUE path such as
 // wiring."bank-main", or "" when it has none.
@@ -69,27 +76,30 @@ func Load(dir string) (*Design, error) {
 type loaded struct {
 	inst  *build.Instance
 	files []string // the package's files and its imports', sorted
-	root  string   // the module root
-	read  func(string) ([]byte, error)
+	src   *Source  // the files cue/load was given, by module path
+	root  string   // the module root: on disk, or the source's in memory
+}
+
+// read returns an input file's contents as they were loaded.
+func (l loaded) read(name string) ([]byte, error) {
+	rel, err := filepath.Rel(l.root, name)
+	if err != nil {
+		return nil, err
+	}
+	b, ok := l.src.Files[filepath.ToSlash(rel)]
+	if !ok {
+		return nil, fmt.Errorf("%s is not among the design's files", displayName(name))
+	}
+	return b, nil
 }
 
 // loadPackage loads the hull's package from src, or the host file system
 // when src is nil.
 func loadPackage(dir string, src *Source) (loaded, error) {
-	var l loaded
-	var err error
 	if src != nil {
-		l.inst, l.files, err = loadSourceInstance(dir, src)
-		l.root, l.read = src.root(), src.read
-		return l, err
+		return loadSource(dir, src)
 	}
-	l.inst, l.files, err = loadInstance(dir)
-	abs, _ := filepath.Abs(dir)
-	if l.root = moduleRoot(abs); l.root == "" {
-		l.root = abs
-	}
-	l.read = os.ReadFile
-	return l, err
+	return loadDisk(dir)
 }
 
 // LoadFrom is Load reading from src, where dir is the hull's directory
@@ -98,7 +108,8 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 	ctx := cuecontext.New()
 	l, err := loadPackage(dir, src)
 	if err != nil {
-		if l.inst == nil {
+		var positioned cueerrors.Error
+		if l.inst == nil && !errors.As(err, &positioned) {
 			return nil, ErrorList{{Msg: err.Error()}}
 		}
 		return nil, loadErrors(err)
@@ -152,6 +163,7 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 		Rules: rules.Over(spec.Rules),
 		pos:   entryPositions(&validator{root: unified, data: data, home: inst.Dir}),
 		value: unified,
+		read:  l.read,
 	}
 	return d, nil
 }

@@ -7,7 +7,6 @@ import (
 	"encoding/hex"
 	"fmt"
 	"hash"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -53,13 +52,14 @@ func headOf(dir string) *head {
 }
 
 // FactsOf asks git about the design whose input files (absolute paths) are
-// files, in the module at root. Only those files count towards Dirty: an
+// files, in the module at root, read by read (the contents the design was
+// loaded from). Only those files count towards Dirty: an
 // edit to another hull, or an untracked file elsewhere, does not. git is
 // asked for the commit's entries of those files alone, and the files are
 // hashed here as git would hash them, so that git runs no filter, hook or
 // monitor of the repository's. Outside a work tree, or without git, the
 // facts are empty.
-func FactsOf(root string, files []string) Facts {
+func FactsOf(root string, files []string, read func(string) ([]byte, error)) Facts {
 	h := headOf(root)
 	if h == nil {
 		return Facts{}
@@ -102,7 +102,7 @@ func FactsOf(root string, files []string) Facts {
 			f.Dirty = true
 			return f
 		}
-		b, err := os.ReadFile(files[i])
+		b, err := read(files[i])
 		if err != nil || blobID(h.format, b) != want {
 			f.Dirty = true
 			return f

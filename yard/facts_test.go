@@ -53,19 +53,19 @@ func TestFactsDirtyOnlyForInputs(t *testing.T) {
 	inputs := func(hull string) []string {
 		return []string{filepath.Join(dir, "catalog/c.cue"), filepath.Join(dir, "hulls", hull, hull+".cue")}
 	}
-	if f := FactsOf(dir, inputs("a")); f.Revision == "" || f.Dirty || f.Time == 0 {
+	if f := FactsOf(dir, inputs("a"), os.ReadFile); f.Revision == "" || f.Dirty || f.Time == 0 {
 		t.Fatalf("clean tree: got %+v, want a revision, a time and not dirty", f)
 	}
 	write(t, dir, "hulls/b/b.cue", "package b\nx: 1\n")
 	write(t, dir, "notes.txt", "untracked\n")
-	if f := FactsOf(dir, inputs("a")); f.Dirty {
+	if f := FactsOf(dir, inputs("a"), os.ReadFile); f.Dirty {
 		t.Error("an edit to hull b and an untracked file made hull a dirty")
 	}
-	if f := FactsOf(dir, inputs("b")); !f.Dirty {
+	if f := FactsOf(dir, inputs("b"), os.ReadFile); !f.Dirty {
 		t.Error("an edit to hull b's own file left it clean")
 	}
 	write(t, dir, "catalog/c.cue", "package catalog\ny: 2\n")
-	if f := FactsOf(dir, inputs("a")); !f.Dirty {
+	if f := FactsOf(dir, inputs("a"), os.ReadFile); !f.Dirty {
 		t.Error("an edit to the catalog hull a imports left it clean")
 	}
 }
@@ -84,7 +84,7 @@ func TestGitIgnoresRepositoryCommands(t *testing.T) {
 		t.Fatalf("%v: %s", err, out)
 	}
 	heads.Delete(dir)
-	FactsOf(dir, []string{filepath.Join(dir, "hulls/a/a.cue")})
+	FactsOf(dir, []string{filepath.Join(dir, "hulls/a/a.cue")}, os.ReadFile)
 	if _, err := ReadRevision(dir, "HEAD"); err != nil {
 		t.Fatal(err)
 	}

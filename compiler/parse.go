@@ -1,0 +1,91 @@
+package compiler
+
+import (
+	"fmt"
+	"path/filepath"
+	"strings"
+	"unicode/utf8"
+
+	"cuelang.org/go/cue/ast"
+	"cuelang.org/go/cue/errors"
+	"cuelang.org/go/cue/parser"
+	"cuelang.org/go/cue/token"
+)
+
+// hullParser is the parser cue/load calls for every file a design is made
+// of, in the module at root whose hull package is in home. It refuses what
+// a design may not hold, each as an error at its position (bytes that are
+// not UTF-8 are refused earlier, by gather: cue/load turns them into U+FFFD
+// before this parser sees them):
+//
+//   - an attribute that ampwright's schema uses (@q, which pins a field to
+//     a dimension and its limits): the limits come from the schema alone,
+//     and a design that wrote `@q(length, le="2000 m")` on a field would
+//     loosen them;
+//   - embedding files (@extern(embed), @embed): an embedded file would be
+//     read by CUE, outside the guard and outside the inputs hash that a
+//     reviewer and the diff rely on.
+//
+// The vendored copy of the schema (checked identical to the embedded one
+// before loading) is the one file allowed the schema's attributes.
+//
+// In the hull's own directory, it also takes out an embedding of the
+// vendored #Design (dropDesignEmbed). The files on disk are not touched.
+func hullParser(root, home string) func(name string, src any, cfg parser.Config) (*ast.File, error) {
+	home = filepath.Clean(home)
+	vendored := filepath.ToSlash(filepath.Join(root, vendoredDir)) + "/"
+	return func(name string, src any, cfg parser.Config) (*ast.File, error) {
+		full := cfg.Mode&(parser.ImportsOnly|parser.PackageClauseOnly) == 0
+		f, err := parser.ParseFile(name, src, cfg)
+		if err != nil || !full {
+			return f, err
+		}
+		if !strings.HasPrefix(filepath.ToSlash(name), vendored) {
+			if err := designAttributes(f); err != nil {
+				return nil, err
+			}
+		}
+		if filepath.Clean(filepath.Dir(name)) == home {
+			dropDesignEmbed(f)
+		}
+		return f, nil
+	}
+}
+
+// invalidUTF8 is the error for the first byte of b that is not UTF-8.
+func invalidUTF8(name string, b []byte) errors.Error {
+	off := 0
+	for off < len(b) {
+		r, w := utf8.DecodeRune(b[off:])
+		if r == utf8.RuneError && w == 1 {
+			break
+		}
+		off += w
+	}
+	tf := token.NewFile(name, -1, len(b))
+	tf.SetLinesForContent(b)
+	return errors.Newf(tf.Pos(off, token.NoRelPos), "byte 0x%02x is not UTF-8: a design file must be UTF-8 text", b[off])
+}
+
+// reservedAttrs are the attributes a design may not write, and why.
+var reservedAttrs = map[string]string{
+	"q":      "@q is the schema's: it pins a field to its dimension and limits, which come from ampwright's schema alone; remove it",
+	"extern": "embedding files is not supported: an embedded file would escape the checks and the inputs hash of the design's .cue files; write the data in CUE",
+	"embed":  "embedding files is not supported: an embedded file would escape the checks and the inputs hash of the design's .cue files; write the data in CUE",
+}
+
+// designAttributes refuses the attributes of reservedAttrs in f, each at
+// its position.
+func designAttributes(f *ast.File) error {
+	var errs errors.Error
+	ast.Walk(f, func(n ast.Node) bool {
+		if a, ok := n.(*ast.Attribute); ok {
+			key, _ := a.Split()
+			if why, ok := reservedAttrs[key]; ok {
+				errs = errors.Append(errs, errors.Newf(a.Pos(), "%s", fmt.Sprintf("attribute @%s: %s", key, why)))
+			}
+		}
+		return true
+	}, nil)
+	return errs
+}
