@@ -16,11 +16,11 @@ func FleetText(w io.Writer, f *result.Fleet) error {
 	fmt.Fprintln(tw, "hull\tvessel\tverdict\tfail\twarn\tbank\tarray\tworst drop\tlowest SoC")
 	for _, l := range f.Hulls {
 		if l.Broken() {
-			fmt.Fprintf(tw, "%s\t-\tERROR\t-\t-\t-\t-\t-\t-\n", l.Path)
+			fmt.Fprintf(tw, "%s\t-\tERROR\t-\t-\t-\t-\t-\t-\n", Inert(l.Path))
 			continue
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%d\t%d\t%s\t%.0f W\t%s\t%s\n", l.Path, strings.TrimSpace(l.Name+" "+l.Hull), strings.ToUpper(string(l.Verdict)),
-			l.Fail, l.Warn, l.Bank, l.Array, dropText(l), socText(l))
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%d\t%d\t%s\t%.0f W\t%s\t%s\n", inertArgs([]any{l.Path, strings.TrimSpace(l.Name + " " + l.Hull), strings.ToUpper(string(l.Verdict)),
+			l.Fail, l.Warn, l.Bank, l.Array, dropText(l), socText(l)})...)
 	}
 	if err := tw.Flush(); err != nil {
 		return err

@@ -12,7 +12,6 @@ import (
 	"fmt"
 	"strings"
 	"time"
-	"unicode"
 
 	"github.com/go-pdf/fpdf"
 	"golang.org/x/image/font/gofont/gobold"
@@ -203,13 +202,22 @@ func (d *doc) textColor(c rgb) { d.f.SetTextColor(c.r, c.g, c.b) }
 func (d *doc) drawColor(c rgb) { d.f.SetDrawColor(c.r, c.g, c.b) }
 func (d *doc) fillColor(c rgb) { d.f.SetFillColor(c.r, c.g, c.b) }
 
-// clean makes design text safe to draw: control characters become spaces
-// and runes the embedded fonts have no glyph for become "?", so that
-// nothing draws as an empty box or moves the text.
+// clean makes text safe to draw: it is made inert (Inert: control
+// characters, line breaks and bidirectional controls written as escapes),
+// runes the embedded fonts have no glyph for become "?", so that nothing
+// draws as an empty box or moves the text, and text longer than maxDrawn
+// runes is cut short with a mark: measuring and wrapping a line costs
+// time in its length, and no field of a pack needs more.
 func (d *doc) clean(s string) string {
+	s = Inert(s)
+	if len(s) > maxDrawn {
+		if r := []rune(s); len(r) > maxDrawn {
+			s = string(r[:maxDrawn]) + " … (cut)"
+		}
+	}
 	ok := true
 	for _, r := range s {
-		if r < 0x20 || r == 0x7f || (r >= 0x80 && !d.hasGlyph(r)) {
+		if r >= 0x80 && !d.hasGlyph(r) {
 			ok = false
 			break
 		}
@@ -219,19 +227,17 @@ func (d *doc) clean(s string) string {
 	}
 	var b strings.Builder
 	for _, r := range s {
-		switch {
-		case r == '\n':
-			b.WriteRune('\n')
-		case unicode.IsControl(r):
-			b.WriteRune(' ')
-		case r >= 0x80 && !d.hasGlyph(r):
+		if r >= 0x80 && !d.hasGlyph(r) {
 			b.WriteRune('?')
-		default:
+		} else {
 			b.WriteRune(r)
 		}
 	}
 	return b.String()
 }
+
+// maxDrawn is the longest text clean lets through, in runes.
+const maxDrawn = 2000
 
 func (d *doc) hasGlyph(r rune) bool {
 	ok, seen := d.haveGlyph[r]
@@ -248,7 +254,7 @@ func (d *doc) textW(s string) float64 { return d.f.GetStringWidth(d.clean(s)) }
 
 // text draws s with its baseline at y.
 func (d *doc) text(x, y float64, s string) {
-	d.f.Text(x, y, d.clean(strings.ReplaceAll(s, "\n", " ")))
+	d.f.Text(x, y, d.clean(s))
 }
 
 // textIn draws s on one line within the box x, y, w, h, aligned "L", "C"
@@ -261,7 +267,7 @@ func (d *doc) textIn(x, y, w, h float64, s, align string) {
 
 // fit truncates s with an ellipsis to at most w wide.
 func (d *doc) fit(s string, w float64) string {
-	s = d.clean(strings.ReplaceAll(s, "\n", " "))
+	s = d.clean(s)
 	if d.f.GetStringWidth(s) <= w {
 		return s
 	}

@@ -224,9 +224,11 @@ type printer struct {
 	err error
 }
 
+// line prints one line, its string arguments made inert: a design's text
+// never reaches the output as it was written.
 func (p *printer) line(format string, args ...any) {
 	if p.err == nil {
-		_, p.err = fmt.Fprintf(p.w, format+"\n", args...)
+		_, p.err = fmt.Fprintf(p.w, format+"\n", inertArgs(args)...)
 	}
 }
 
@@ -248,8 +250,18 @@ func (p *printer) table(headers ...string) *table {
 
 func (t *table) row(cells ...string) {
 	if t.p.err == nil {
-		_, t.p.err = fmt.Fprintln(t.tw, "  "+strings.Join(cells, "\t"))
+		_, t.p.err = fmt.Fprintln(t.tw, "  "+strings.Join(inertCells(cells), "\t"))
 	}
+}
+
+// inertCells makes a table's cells inert, so that no tab or line break in
+// a design's text can shift a column or forge a row.
+func inertCells(cells []string) []string {
+	out := make([]string, len(cells))
+	for i, c := range cells {
+		out[i] = Inert(c)
+	}
+	return out
 }
 
 func (t *table) flush() {

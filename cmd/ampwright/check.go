@@ -93,7 +93,9 @@ func runCheck(opts *checkOptions, dirs []string) error {
 // printProblems writes a design's input errors as every command does: a
 // count, then one error a line.
 func printProblems(w io.Writer, dir string, r *result.Result) error {
-	fmt.Fprintf(w, "%s: %d input error(s)\n", dir, len(r.Problems))
+	if err := report.Printf(w, "%s: %d input error(s)\n", dir, len(r.Problems)); err != nil {
+		return err
+	}
 	return report.Problems(w, r.Problems)
 }
 

@@ -127,7 +127,9 @@ func runDiff(opts *diffOptions, args []string) error {
 	case "hulls":
 		for _, h := range d.Hulls {
 			if h.State == result.HullChanged || h.State == result.HullAdded {
-				fmt.Fprintln(opts.stdout, h.Path)
+				if err := report.Printf(opts.stdout, "%s\n", h.Path); err != nil {
+					return err
+				}
 			}
 		}
 	default:

@@ -99,7 +99,7 @@ func runPack(opts *packOptions, dir string) error {
 	}
 	c := r.Count()
 	if c.Fail > 0 && opts.requirePass {
-		fmt.Fprintf(opts.stderr, "%s: %s; no pack written (--%s)\n", dir, failSummary(r), flagRequirePass)
+		report.Printf(opts.stderr, "%s: %s; no pack written (--%s)\n", dir, failSummary(r), flagRequirePass)
 		return &exitError{code: exitFail}
 	}
 
@@ -111,11 +111,12 @@ func runPack(opts *packOptions, dir string) error {
 		return &exitError{code: exitInput, err: fmt.Errorf("cannot write %s: %v", opts.out, pathErr(err))}
 	}
 	if c.Fail > 0 {
-		fmt.Fprintf(opts.stdout, "wrote %s: NOT APPROVED, %s\n", opts.out, failSummary(r))
+		if err := report.Printf(opts.stdout, "wrote %s: NOT APPROVED, %s\n", opts.out, failSummary(r)); err != nil {
+			return err
+		}
 		return &exitError{code: exitFail}
 	}
-	fmt.Fprintf(opts.stdout, "wrote %s: %d checks pass, %d warn\n", opts.out, c.Pass, c.Warn)
-	return nil
+	return report.Printf(opts.stdout, "wrote %s: %d checks pass, %d warn\n", opts.out, c.Pass, c.Warn)
 }
 
 // failSummary says how many checks fail and which.

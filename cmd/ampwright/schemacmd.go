@@ -2,13 +2,13 @@ package main
 
 import (
 	"bytes"
-	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
 
 	"github.com/spf13/cobra"
 
+	"github.com/ampwright/ampwright/report"
 	"github.com/ampwright/ampwright/schema"
 )
 
@@ -35,7 +35,7 @@ are left alone.`,
 			if err := writeSchema(out); err != nil {
 				return &exitError{code: exitInput, err: err}
 			}
-			fmt.Fprintf(cmd.OutOrStdout(), "wrote schema package to %s\n", out)
+			report.Printf(cmd.OutOrStdout(), "wrote schema package to %s\n", out)
 			return nil
 		},
 	}
