@@ -151,7 +151,9 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 	if err := sch.LookupPath(schema.DefaultPath).Decode(&rules); err != nil {
 		return nil, fmt.Errorf("internal error: the default rulebook does not decode: %v", err)
 	}
-	if errs := append(irradiationBounds(v, &spec), moduleEfficiency(v, &spec)...); len(errs) > 0 {
+	errs := append(irradiationBounds(v, &spec), moduleEfficiency(v, &spec)...)
+	errs = append(errs, rulebookErrors(v, spec.Rules)...)
+	if len(errs) > 0 {
 		return nil, errs.Err()
 	}
 	d := &Design{

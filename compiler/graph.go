@@ -153,6 +153,11 @@ func (g *graph) attach() {
 		}
 	}
 	for _, r := range g.net.Runs {
+		// A load ends the wiring: nothing is fed from it.
+		if g.kind[r.Up] == "load" {
+			g.fail(r.Path, "the run continues from load %q to %q: a load ends the wiring and feeds nothing; feed %q from a bus or the bank", r.Up, r.Down, r.Down)
+			continue
+		}
 		// A run that ends at a load must be that load's circuit.
 		if g.kind[r.Down] == "load" && s.Loads[r.Down].Circuit != r.Name && s.Loads[r.Down].Circuit != "" {
 			g.fail(r.Path, "the run ends at load %q, whose circuit is %q", r.Down, s.Loads[r.Down].Circuit)

@@ -1,6 +1,7 @@
 package compiler
 
 import (
+	"fmt"
 	"math"
 	"strings"
 
@@ -48,7 +49,40 @@ func compile(dir string, src *Source) (*result.Result, *Design, error) {
 	r.Harvest = in.HarvestResult()
 	r.Voyage = in.VoyageResult()
 	r.BOM = billOfMaterials(d)
+	if err := finite(r); err != nil {
+		return nil, nil, err
+	}
 	return r, d, nil
+}
+
+// finite refuses a result with a number that is not finite: values within
+// the schema's limits can still multiply or divide past what a float64
+// holds, and no view (JSON least of all) could show the figure.
+func finite(r *result.Result) error {
+	p, bad := result.NonFinite(r)
+	if !bad {
+		return nil
+	}
+	e := &Error{Msg: fmt.Sprintf("the figure at %s is not a finite number: the design's values are too large or too small to compute with; check the values it is computed from", p)}
+	var i int
+	switch {
+	case scan(p, "checks[%d]", &i) && i < len(r.Checks):
+		f := r.Checks[i]
+		e.Msg = fmt.Sprintf("check %s of %s computes a number that is not finite: the design's values are too large or too small to compute with; check the values of %s", f.ID, f.Subject, f.Subject)
+		if f.Position != "" {
+			e.Msg += " at " + f.Position
+		}
+	case scan(p, "figures[%d]", &i) && i < len(r.Figures):
+		f := r.Figures[i]
+		e.Msg = fmt.Sprintf("figure %s of %s is not a finite number: the design's values are too large or too small to compute with; check the values of %s", f.ID, f.Subject, f.Subject)
+	}
+	return ErrorList{e}
+}
+
+// scan reads an index from the front of a result path.
+func scan(p, format string, i *int) bool {
+	_, err := fmt.Sscanf(p, format, i)
+	return err == nil
 }
 
 // Result returns the result skeleton of d: identity, rulebook, summary

@@ -16,8 +16,13 @@ import (
 )
 
 // JSON writes v as indented JSON with a final newline. Map keys are
-// sorted by encoding/json, so the same result gives the same bytes.
+// sorted by encoding/json, so the same result gives the same bytes. A
+// number that is not finite, which JSON cannot hold, is refused before a
+// byte is written (the compiler refuses such a design first).
 func JSON(w io.Writer, v any) error {
+	if p, bad := result.NonFinite(v); bad {
+		return fmt.Errorf("the value at %s is not a finite number, which JSON cannot hold; no JSON written", p)
+	}
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	enc.SetEscapeHTML(false)
