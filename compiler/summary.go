@@ -16,18 +16,12 @@ func Compile(dir string) (*result.Result, *Design, error) {
 	return CompileFrom(dir, nil)
 }
 
-// CompileFrom is Compile reading from src (see LoadFrom), within
-// DefaultLimits.
-func CompileFrom(dir string, src *Source) (*result.Result, *Design, error) {
-	type both struct {
-		r *result.Result
-		d *Design
-	}
-	b, err := withTimeout(dir, DefaultLimits, func() (both, error) {
-		r, d, err := compile(dir, src)
-		return both{r, d}, err
-	})
-	return b.r, b.d, err
+// CompileFrom is Compile reading from src (see LoadFrom). It bounds what
+// it reads (DefaultLimits), not its time or memory: that is for the process
+// that runs it.
+func CompileFrom(dir string, src *Source) (r *result.Result, d *Design, err error) {
+	defer recovered(dir, &err)
+	return compile(dir, src)
 }
 
 func compile(dir string, src *Source) (*result.Result, *Design, error) {

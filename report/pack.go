@@ -21,6 +21,30 @@ type PackOptions struct {
 	// undated; it is never the clock's time, so the same inputs give the
 	// same bytes.
 	Date time.Time
+	// MaxPages bounds the pack's pages, and Deadline the time it may take
+	// to draw (0 and zero for none): Pack stops at the first bound passed
+	// and returns a *PackBoundError, writing nothing.
+	MaxPages int
+	Deadline time.Time
+}
+
+// PackBoundError is a pack that passed a bound of PackOptions while it
+// was drawn.
+type PackBoundError struct {
+	Pages   int    // the page bound passed, or 0
+	Time    bool   // the deadline passed
+	Section string // the section being drawn
+}
+
+func (e *PackBoundError) Error() string {
+	at := ""
+	if e.Section != "" {
+		at = fmt.Sprintf(" while drawing %q", e.Section)
+	}
+	if e.Time {
+		return "pack: drawing took longer than its time bound" + at + "; no pack written"
+	}
+	return fmt.Sprintf("pack: the pack passed its bound of %d pages%s; no pack written", e.Pages, at)
 }
 
 // PackEpoch is the PDF date of a pack with no date and no commit time:
@@ -51,7 +75,12 @@ func Pack(w io.Writer, r *result.Result, opts PackOptions) error {
 		return err
 	}
 	p := &pack{d: d, r: r, date: date.UTC(), dated: dated, sources: map[string]int{}}
+	d.maxPages, d.deadline = opts.MaxPages, opts.Deadline
+	d.where = func() string { return p.section }
 	p.build()
+	if d.stopped != nil {
+		return d.stopped
+	}
 	b, err := d.bytes()
 	if err != nil {
 		return fmt.Errorf("pack: %w", err)

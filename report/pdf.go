@@ -74,6 +74,21 @@ type doc struct {
 	glyphBuf   sfnt.Buffer
 	haveGlyph  map[rune]bool
 	inDecorate bool
+	// maxPages and deadline bound the drawing (0 and zero for none); the
+	// first bound passed is kept in stopped, and fpdf draws nothing more.
+	maxPages int
+	deadline time.Time
+	stopped  error
+	where    func() string // names the part being drawn, for stopped
+}
+
+// stop halts the drawing with err: fpdf ignores every call after an error,
+// so the sections run on cheaply to their ends and Pack returns err.
+func (d *doc) stop(err error) {
+	if d.stopped == nil {
+		d.stopped = err
+		d.f.SetError(err)
+	}
 }
 
 // newDoc starts a document on paper "A4" or "Letter", dated date.
@@ -135,6 +150,23 @@ func (d *doc) setInfo(title, subject, author string) {
 // the top of its content area.
 func (d *doc) addPage(landscape bool) {
 	d.landscape = landscape
+	where := ""
+	if d.where != nil {
+		where = d.where()
+	}
+	switch {
+	case d.stopped != nil:
+		d.y = d.top
+		return
+	case d.maxPages > 0 && d.page() >= d.maxPages:
+		d.stop(&PackBoundError{Pages: d.maxPages, Section: where})
+	case !d.deadline.IsZero() && time.Now().After(d.deadline):
+		d.stop(&PackBoundError{Time: true, Section: where})
+	}
+	if d.stopped != nil {
+		d.y = d.top
+		return
+	}
 	o := "P"
 	if landscape {
 		o = "L"

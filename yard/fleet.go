@@ -3,8 +3,6 @@ package yard
 import (
 	"crypto/sha256"
 	"encoding/binary"
-	"path/filepath"
-	"runtime"
 	"sync"
 
 	"github.com/ampwright/ampwright/result"
@@ -23,46 +21,53 @@ func InShard(hull string, k, n int) bool {
 	return binary.BigEndian.Uint64(sum[:8])%uint64(n) == uint64(k-1)
 }
 
-// Fleet compiles the hulls (slash paths relative to root) concurrently,
-// as many at once as there are cores, and returns one line per hull in the
-// order given. A hull that does not compile gets a line with its errors
-// and does not stop the others. progress, if not nil, is called after each
-// hull with the number done.
-func Fleet(root string, hulls []string, progress func(done, total int)) []result.FleetLine {
+// Fleet compiles the hulls (slash paths relative to root) as opts says,
+// by default one a core in this process, and returns one line per hull in
+// the order given. A hull that does not compile, or that passes a bound of
+// the runner, gets a line with its problems and does not stop the others.
+func Fleet(root string, hulls []string, opts Options) []result.FleetLine {
 	out := make([]result.FleetLine, len(hulls))
-	workers := runtime.GOMAXPROCS(0)
+	run := opts.run()
+	each(len(hulls), opts, func(i int) {
+		c := run(Side{Dir: root}, hulls[i], WantLine)
+		switch {
+		case !c.OK():
+			out[i] = result.FleetLine{Path: hulls[i], Problems: c.Problems, LowestSoC: -1}
+		case c.Line != nil:
+			out[i] = *c.Line
+			out[i].Path = hulls[i]
+		default:
+			out[i] = result.FleetLineOf(hulls[i], c.Result)
+		}
+	})
+	return out
+}
+
+// each calls f for 0 ≤ i < n, opts.parallel() at a time, reporting
+// progress after each.
+func each(n int, opts Options, f func(i int)) {
 	jobs := make(chan int)
 	var wg sync.WaitGroup
 	var mu sync.Mutex
 	done := 0
-	for w := 0; w < workers; w++ {
+	for w := 0; w < min(opts.parallel(), max(n, 1)); w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
 			for i := range jobs {
-				out[i] = fleetLine(root, hulls[i])
-				if progress != nil {
+				f(i)
+				if opts.Progress != nil {
 					mu.Lock()
 					done++
-					progress(done, len(hulls))
+					opts.Progress(done, n)
 					mu.Unlock()
 				}
 			}
 		}()
 	}
-	for i := range hulls {
+	for i := 0; i < n; i++ {
 		jobs <- i
 	}
 	close(jobs)
 	wg.Wait()
-	return out
-}
-
-func fleetLine(root, hull string) result.FleetLine {
-	r, _, err := Compile(filepath.Join(root, filepath.FromSlash(hull)))
-	if err != nil {
-		b := broken(hull, err)
-		return result.FleetLine{Path: hull, Problems: b.Problems, LowestSoC: -1}
-	}
-	return result.FleetLineOf(hull, r)
 }

@@ -20,6 +20,9 @@ type Revision struct {
 	// Commit is the commit's hash and Time its commit time, Unix seconds.
 	Commit string
 	Time   int64
+	// Dir is the module's directory in the work tree it was read from,
+	// absolute: with Commit, what a worker process reads it again by.
+	Dir string
 }
 
 // ReadRevision reads the module whose root is moduleDir, a directory in a
@@ -105,7 +108,7 @@ func ReadRevision(moduleDir, rev string) (*Revision, error) {
 			resolveLink(e.path, entries, contents, src)
 		}
 	}
-	rv := &Revision{Source: src, Commit: hash}
+	rv := &Revision{Source: src, Commit: hash, Dir: abs}
 	if t, err := git(topDir, nil, "log", "-1", "--format=%ct", hash); err == nil {
 		rv.Time, _ = strconv.ParseInt(strings.TrimSpace(string(t)), 10, 64)
 	}

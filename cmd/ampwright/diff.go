@@ -21,7 +21,7 @@ const (
 
 type diffOptions struct {
 	base, head, format, failOn string
-	stdout                     io.Writer
+	stdout, stderr             io.Writer
 }
 
 func newDiffCmd() *cobra.Command {
@@ -62,7 +62,7 @@ any failing finding in a changed hull), 2 an error.`,
 			default:
 				return usageError("--%s %q: expected regression|failing|never", flagFailOn, opts.failOn)
 			}
-			opts.stdout = cmd.OutOrStdout()
+			opts.stdout, opts.stderr = cmd.OutOrStdout(), cmd.ErrOrStderr()
 			return runDiff(opts, args)
 		},
 	}
@@ -115,7 +115,9 @@ func runDiff(opts *diffOptions, args []string) error {
 			head = yard.Side{Name: "work tree", Dir: root}
 		}
 	}
-	d, err := yard.DiffYard(base, head)
+	run, done := newPool(opts.stderr)
+	defer done()
+	d, err := yard.DiffYard(base, head, run)
 	if err != nil {
 		return &exitError{code: exitInput, err: err}
 	}

@@ -37,7 +37,9 @@ and hidden directories are skipped), compiles them concurrently, as many at
 once as there are cores, and prints one line per hull, sorted by path:
 verdict, failing and warning counts, bank, array, worst voltage drop
 against its limit and the lowest state of charge on the design voyage. A
-broken hull is reported with its errors and does not stop the others.
+broken hull is reported with its errors and does not stop the others;
+each hull is compiled in a worker process, and one that passes --timeout
+or --max-memory is stopped and reported broken.
 
 --shard K/N takes a stable 1/N share of the hulls, so a large yard can be
 spread over the parallel jobs of a CI matrix; --merge combines the shards'
@@ -110,7 +112,10 @@ func runFleet(opts *fleetOptions, dir string) error {
 	if n > 1 {
 		f.Shard = opts.shard
 	}
-	f.Hulls = yard.Fleet(dir, hulls, progressBar(opts.stderr))
+	run, done := newPool(opts.stderr)
+	defer done()
+	run.Progress = progressBar(opts.stderr)
+	f.Hulls = yard.Fleet(dir, hulls, run)
 	return printFleet(opts, f)
 }
 

@@ -21,9 +21,10 @@ const (
 
 // Flag names.
 const (
-	flagFormat  = "format"
-	flagOut     = "out"
-	flagTimeout = "timeout"
+	flagFormat    = "format"
+	flagOut       = "out"
+	flagTimeout   = "timeout"
+	flagMaxMemory = "max-memory"
 )
 
 // exitError carries an exit status through cobra.
@@ -86,7 +87,12 @@ func run(args []string, stdout, stderr io.Writer) int {
 	return exitInput
 }
 
+// pristine are the limits before any flag sets them: each run starts from
+// them (tests call run many times in one process).
+var pristine = compiler.DefaultLimits
+
 func newRootCmd(stdout, stderr io.Writer) *cobra.Command {
+	compiler.DefaultLimits = pristine
 	root := &cobra.Command{
 		Use:   "ampwright",
 		Short: "Check a boat's DC and solar-charging design written in CUE",
@@ -109,11 +115,19 @@ nor the standards and local rules that apply to the boat.`,
   ampwright schema --out cue.mod/pkg/ampwright.dev/schema`,
 		SilenceErrors: true,
 		SilenceUsage:  true,
+		PersistentPreRunE: func(*cobra.Command, []string) error {
+			if compiler.DefaultLimits.Timeout <= 0 {
+				return usageError("--%s %s: expected a duration of more than 0, such as 60s", flagTimeout, compiler.DefaultLimits.Timeout)
+			}
+			return nil
+		},
 	}
 	root.SetOut(stdout)
 	root.SetErr(stderr)
 	root.PersistentFlags().DurationVar(&compiler.DefaultLimits.Timeout, flagTimeout, compiler.DefaultLimits.Timeout,
-		"give up on a design that takes longer than this to compile")
+		"stop work on a design that takes longer than this (its compile; for pack, also its drawing)")
+	root.PersistentFlags().Var(sizeValue{&compiler.DefaultLimits.MaxMemory}, flagMaxMemory,
+		"stop work on a design whose compile needs more memory than this, such as 512MiB or 2GiB")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
 		return &exitError{code: exitInput, err: err, hint: fmt.Sprintf("Run '%s --help' for usage.", c.CommandPath())}
 	})
@@ -126,6 +140,7 @@ nor the standards and local rules that apply to the boat.`,
 		newPackCmd(),
 		newSchemaCmd(),
 		newVersionCmd(),
+		newWorkerCmd(),
 	)
 	for _, c := range root.Commands() {
 		if run := c.RunE; run != nil {

@@ -83,6 +83,7 @@ func writeFileAtomic(name string, b []byte) error {
 		return err
 	}
 	tmp := f.Name()
+	addTemp(tmp)
 	_, werr := f.Write(b)
 	cerr := f.Close()
 	if werr == nil {
@@ -92,10 +93,11 @@ func writeFileAtomic(name string, b []byte) error {
 		werr = os.Chmod(tmp, 0o644)
 	}
 	if werr == nil {
-		werr = os.Rename(tmp, name)
+		werr = renameTemp(tmp, name)
 	}
 	if werr != nil {
 		os.Remove(tmp)
+		dropTemp(tmp)
 		return werr
 	}
 	return nil
