@@ -103,6 +103,10 @@ type pack struct {
 	sourceList []string
 	// lastPos is the last design position shown on the sheets.
 	lastPos string
+	// The lookups of index.
+	figAt   map[idSubject]int
+	figByID map[string][]int
+	findAt  map[idSubject][]int
 }
 
 type tocEntry struct {
@@ -115,16 +119,13 @@ func (p *pack) build() {
 	d.setInfo("Calculation pack: "+name+" "+r.Design.Hull, "DC electrical and solar-charging design", r.Design.Designer)
 	d.header = p.header
 	d.footer = p.footer
-	p.cover()
-	p.findings()
-	p.energy()
-	p.solar()
-	p.voyage()
-	p.wiring()
-	p.diagram()
-	p.calcSheets()
-	p.bom()
-	p.cautions()
+	// Once a bound stops the drawing (doc.stop), the sections left are
+	// not drawn at all.
+	for _, section := range []func(){p.cover, p.findings, p.energy, p.solar, p.voyage, p.wiring, p.diagram, p.calcSheets, p.bom, p.cautions} {
+		if d.stopped == nil {
+			section()
+		}
+	}
 }
 
 // start begins a section on a new page and lists it in the contents.
@@ -612,31 +613,51 @@ func (p *pack) lengthIn(m float64) string {
 
 // figures returns the figures with the given ID.
 func (p *pack) figures(id string) []result.Figure {
+	p.index()
 	var out []result.Figure
-	for _, f := range p.r.Figures {
-		if f.ID == id {
-			out = append(out, f)
-		}
+	for _, i := range p.figByID[id] {
+		out = append(out, p.r.Figures[i])
 	}
 	return out
 }
 
 // figure returns the figure with the given ID and subject.
 func (p *pack) figure(id, subject string) (result.Figure, bool) {
-	for _, f := range p.r.Figures {
-		if f.ID == id && f.Subject == subject {
-			return f, true
-		}
+	p.index()
+	if i, ok := p.figAt[idSubject{id, subject}]; ok {
+		return p.r.Figures[i], true
 	}
 	return result.Figure{}, false
 }
 
 // finding returns the finding with the given ID and subject.
 func (p *pack) finding(id, subject string) (result.Finding, bool) {
-	for _, f := range p.r.Checks {
-		if f.ID == id && f.Subject == subject {
-			return f, true
-		}
+	p.index()
+	if is := p.findAt[idSubject{id, subject}]; len(is) > 0 {
+		return p.r.Checks[is[0]], true
 	}
 	return result.Finding{}, false
+}
+
+// idSubject keys a figure or finding.
+type idSubject struct{ id, subject string }
+
+// index builds the lookups of figures and findings once: a design of
+// thousands of runs looks them up thousands of times.
+func (p *pack) index() {
+	if p.figAt != nil {
+		return
+	}
+	p.figAt, p.figByID, p.findAt = map[idSubject]int{}, map[string][]int{}, map[idSubject][]int{}
+	for i, f := range p.r.Figures {
+		k := idSubject{f.ID, f.Subject}
+		if _, ok := p.figAt[k]; !ok {
+			p.figAt[k] = i
+		}
+		p.figByID[f.ID] = append(p.figByID[f.ID], i)
+	}
+	for i, f := range p.r.Checks {
+		k := idSubject{f.ID, f.Subject}
+		p.findAt[k] = append(p.findAt[k], i)
+	}
 }
