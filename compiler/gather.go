@@ -17,7 +17,7 @@ import (
 )
 
 // gather reads the files the package in dir is made of, from fsys, the
-// module's root: the module file, the vendored copy of the schema, the
+// module's root (shown in messages as label): the module file, the vendored copy of the schema, the
 // .cue files of the package's directory and of its parents up to the
 // module root (CUE adds a parent's files of the same package), and the
 // same for every package it imports from the module or from cue.mod, found
@@ -28,7 +28,7 @@ import (
 // Files that are not UTF-8 text are listed apart: cue/load would quietly
 // turn their bytes into U+FFFD, and each is an input error at its first
 // bad byte.
-func gather(fsys fs.FS, dir string) (files map[string][]byte, notUTF8 []string, err error) {
+func gather(fsys fs.FS, dir, label string) (files map[string][]byte, notUTF8 []string, err error) {
 	g := &gatherer{fsys: fsys, files: map[string][]byte{}, dirs: map[string]bool{}, pkgs: map[string]bool{}}
 	mod, err := g.optional(modFile)
 	if err != nil {
@@ -44,7 +44,7 @@ func gather(fsys fs.FS, dir string) (files map[string][]byte, notUTF8 []string, 
 		// cue/load would read the replacements' directories, which may lie
 		// anywhere on the host.
 		if _, err := fs.Stat(fsys, localModFile); err == nil || !errors.Is(err, fs.ErrNotExist) {
-			return nil, nil, fmt.Errorf("%s: module replacements are not supported; ampwright reads nothing outside the design's module", localModFile)
+			return nil, nil, fmt.Errorf("%s%s: module replacements are not supported; ampwright reads nothing outside the design's module", label, localModFile)
 		}
 	}
 	if err := g.dirFiles(vendoredDir); err != nil {

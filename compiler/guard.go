@@ -90,7 +90,7 @@ func (g *guardFS) refuse(name string, err error) error {
 	return r
 }
 
-const outside = "is a symbolic link that leads outside the module; ampwright reads nothing outside the design's module"
+const outside = "leads outside the module through a symbolic link; ampwright reads nothing outside the design's module"
 
 // leadsOut reports whether name, once its links are followed, lies outside
 // the module. A link that leads nowhere counts as leading out when its

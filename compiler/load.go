@@ -146,7 +146,7 @@ func loadSource(dir string, src *Source) (loaded, error) {
 	if _, err := os.Lstat(virtualBase); !errors.Is(err, fs.ErrNotExist) {
 		return loaded{}, fmt.Errorf("%s exists on this machine; ampwright lays designs out there in memory and will not load one while it exists", virtualBase)
 	}
-	files, notUTF8, err := gather(src.FS(), dir)
+	files, notUTF8, err := gather(src.FS(), dir, src.Label)
 	if err != nil {
 		return loaded{}, err
 	}
@@ -167,8 +167,12 @@ func loadSource(dir string, src *Source) (loaded, error) {
 	for name, b := range files {
 		overlay[root+"/"+name] = load.FromBytes(b)
 	}
-	cfg := &load.Config{Dir: root, Overlay: overlay, Registry: refusingRegistry{}, ParseFile: hullParser(root, root+"/"+dir)}
+	refused := &refusals{}
+	cfg := &load.Config{Dir: root, Overlay: overlay, Registry: refusingRegistry{}, ParseFile: hullParser(root, root+"/"+dir, refused)}
 	insts := load.Instances([]string{"./" + strings.TrimPrefix(dir, "./")}, cfg)
+	if err := refused.err(); err != nil {
+		return loaded{src: sub, root: root}, err
+	}
 	inst, list, err := checkInstance(dir, insts)
 	return loaded{inst: inst, files: list, src: sub, root: root}, err
 }
@@ -208,7 +212,7 @@ func loadDisk(dir string) (loaded, error) {
 		label += "/"
 	}
 	// The guard's files, gathered once more by loadSource from memory.
-	files, _, err := gather(g, filepath.ToSlash(rel))
+	files, _, err := gather(g, filepath.ToSlash(rel), label)
 	if err != nil {
 		return loaded{}, err
 	}

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"path/filepath"
 	"strings"
+	"sync"
 	"unicode/utf8"
 
 	"cuelang.org/go/cue/ast"
@@ -31,7 +32,11 @@ import (
 //
 // In the hull's own directory, it also takes out an embedding of the
 // vendored #Design (dropDesignEmbed). The files on disk are not touched.
-func hullParser(root, home string) func(name string, src any, cfg parser.Config) (*ast.File, error) {
+//
+// The refusals are also kept in refused: cue/load reports an error in an
+// imported package at the import, and the refusal's own position is the
+// one to show.
+func hullParser(root, home string, refused *refusals) func(name string, src any, cfg parser.Config) (*ast.File, error) {
 	home = filepath.Clean(home)
 	vendored := filepath.ToSlash(filepath.Join(root, vendoredDir)) + "/"
 	return func(name string, src any, cfg parser.Config) (*ast.File, error) {
@@ -42,6 +47,7 @@ func hullParser(root, home string) func(name string, src any, cfg parser.Config)
 		}
 		if !strings.HasPrefix(filepath.ToSlash(name), vendored) {
 			if err := designAttributes(f); err != nil {
+				refused.add(err)
 				return nil, err
 			}
 		}
@@ -76,7 +82,7 @@ var reservedAttrs = map[string]string{
 
 // designAttributes refuses the attributes of reservedAttrs in f, each at
 // its position.
-func designAttributes(f *ast.File) error {
+func designAttributes(f *ast.File) errors.Error {
 	var errs errors.Error
 	ast.Walk(f, func(n ast.Node) bool {
 		if a, ok := n.(*ast.Attribute); ok {
@@ -88,4 +94,23 @@ func designAttributes(f *ast.File) error {
 		return true
 	}, nil)
 	return errs
+}
+
+// refusals collects the errors hullParser refused files with; cue/load
+// may parse files from several goroutines.
+type refusals struct {
+	mu   sync.Mutex
+	errs errors.Error
+}
+
+func (r *refusals) add(err errors.Error) {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	r.errs = errors.Append(r.errs, err)
+}
+
+func (r *refusals) err() errors.Error {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	return r.errs
 }

@@ -188,7 +188,7 @@ func resolveLink(name string, entries []revEntry, contents map[string][]byte, sr
 		}
 		next := path.Join(path.Dir(p), target)
 		if next == ".." || strings.HasPrefix(next, "../") {
-			src.Bad[name] = "is a symbolic link that leads outside the module; ampwright reads nothing outside the design's module"
+			src.Bad[name] = "leads outside the module through a symbolic link; ampwright reads nothing outside the design's module"
 			return
 		}
 		if !link[next] {
