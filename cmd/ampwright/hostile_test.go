@@ -559,3 +559,67 @@ func inflated(b []byte) []byte {
 	}
 	return out
 }
+
+// The yard as a pull request brings it: a git repository whose own
+// configuration names a command to run (an fsmonitor), and whose commits
+// hold a link out of the module and an oversize file. ampwright runs no
+// command of the repository's, and reads the commit's links and files
+// under the same rules as the work tree's.
+func TestHostileGit(t *testing.T) {
+	if _, err := exec.LookPath("git"); err != nil {
+		t.Skip("no git")
+	}
+	h := newHostile(t)
+	for _, dir := range []string{"slow", "greedy", "loads-10k"} {
+		os.RemoveAll(h.hull(dir))
+	}
+	git := func(args ...string) {
+		t.Helper()
+		cmd := exec.Command("git", append([]string{"-C", h.yard, "-c", "user.name=t", "-c", "user.email=t@example.invalid", "-c", "commit.gpgsign=false"}, args...)...)
+		if out, err := cmd.CombinedOutput(); err != nil {
+			t.Fatalf("git %v: %v\n%s", args, err, out)
+		}
+	}
+	git("init", "-q")
+	git("add", ".")
+	git("commit", "-q", "-m", "base")
+	// The pull request: a link out of the module and an oversize file,
+	// committed.
+	h.link("../../../outside/leak.cue", "yard/hulls/link-cue/leak.cue")
+	h.write("yard/hulls/oversize/big.cue", "package hull\n"+strings.Repeat("// padding padding padding padding padding padding padding padding\n", 5<<20/66+1))
+	git("add", ".")
+	git("commit", "-q", "-m", "head")
+
+	marker := filepath.Join(h.dir, "ran")
+	script := filepath.Join(h.dir, "monitor.sh")
+	if err := os.WriteFile(script, []byte("#!/bin/sh\ntouch "+marker+"\n"), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	git("config", "core.fsmonitor", script)
+	git("config", "core.pager", script)
+
+	for _, args := range [][]string{
+		{"check", h.hull("good")},
+		{"check", "--format", "json", h.hull("good"), h.hull("hours")},
+		{"pack", h.hull("good"), "-o", filepath.Join(h.dir, "good.pdf")},
+		{"diff", h.yard},
+		{"diff", "--base", "HEAD~1", "--format", "markdown", h.yard},
+		{"diff", "--base", "HEAD~1", "--head", "HEAD", "--format", "json", h.yard},
+	} {
+		o := h.exec(args...)
+		if o.code == exitInput && args[0] != "check" {
+			t.Errorf("ampwright %s: exit %d:\n%s", strings.Join(args, " "), o.code, o.all())
+		}
+		h.clean(o)
+		if args[0] == "diff" && len(args) > 2 && args[2] == "HEAD~1" {
+			for _, want := range []string{"hulls/link-cue/leak.cue leads outside the module through a symbolic link", "hulls/oversize/big.cue is [0-9]+ bytes, more than the 4194304-byte limit"} {
+				if !regexp.MustCompile(want).MatchString(o.stdout) {
+					t.Errorf("ampwright %s does not say %q:\n%s", strings.Join(args, " "), want, o.stdout)
+				}
+			}
+		}
+	}
+	if _, err := os.Stat(marker); err == nil {
+		t.Error("ampwright let git run the repository's configured command")
+	}
+}
