@@ -110,7 +110,7 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 	if err != nil {
 		var positioned cueerrors.Error
 		if l.inst == nil && !errors.As(err, &positioned) {
-			return nil, ErrorList{{Msg: err.Error()}}
+			return nil, ErrorList{{Msg: unvirtual(err.Error())}}
 		}
 		return nil, loadErrors(err)
 	}

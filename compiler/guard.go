@@ -10,6 +10,7 @@ import (
 	"slices"
 	"strings"
 	"sync/atomic"
+	"syscall"
 )
 
 // guardFS is a module on disk as ampwright reads it: every path is opened
@@ -80,6 +81,8 @@ func (g *guardFS) refuse(name string, err error) error {
 		}
 	case errors.Is(err, fs.ErrPermission):
 		r.why, r.kind = "cannot be read: permission denied", fs.ErrPermission
+	case errors.Is(err, syscall.ELOOP):
+		r.why = "is a symbolic link in a loop"
 	case g.leadsOut(name):
 		r.why = outside
 	default:

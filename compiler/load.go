@@ -341,10 +341,24 @@ func loadErrors(err error) ErrorList {
 	var l ErrorList
 	for _, e := range errors.Errors(err) {
 		pos, rel := designPos(append([]token.Pos{e.Position()}, e.InputPositions()...))
-		l = append(l, &Error{Pos: pos, Path: pathString(e.Path()), Msg: errors.StringWithConfig(e, &errors.Config{OmitPath: true}), Related: rel})
+		l = append(l, &Error{Pos: pos, Path: pathString(e.Path()), Msg: unvirtual(errors.StringWithConfig(e, &errors.Config{OmitPath: true})), Related: rel})
 	}
 	if len(l) == 0 {
-		l = append(l, &Error{Msg: err.Error()})
+		l = append(l, &Error{Msg: unvirtual(err.Error())})
 	}
 	return l
+}
+
+// unvirtual writes the overlay's paths in a message as messages show
+// files, by their labels: cue/load names directories in some messages.
+func unvirtual(msg string) string {
+	if !strings.Contains(msg, virtualBase) {
+		return msg
+	}
+	labels.Range(func(k, v any) bool {
+		msg = strings.ReplaceAll(msg, k.(string)+"/", v.(string))
+		msg = strings.ReplaceAll(msg, k.(string), strings.TrimSuffix(v.(string), "/"))
+		return true
+	})
+	return msg
 }

@@ -3,7 +3,6 @@ package compiler
 import (
 	"fmt"
 	"path/filepath"
-	"strings"
 	"sync"
 	"unicode/utf8"
 
@@ -38,14 +37,16 @@ import (
 // one to show.
 func hullParser(root, home string, refused *refusals) func(name string, src any, cfg parser.Config) (*ast.File, error) {
 	home = filepath.Clean(home)
-	vendored := filepath.ToSlash(filepath.Join(root, vendoredDir)) + "/"
+	vendored := filepath.Join(root, vendoredDir)
 	return func(name string, src any, cfg parser.Config) (*ast.File, error) {
 		full := cfg.Mode&(parser.ImportsOnly|parser.PackageClauseOnly) == 0
 		f, err := parser.ParseFile(name, src, cfg)
 		if err != nil || !full {
 			return f, err
 		}
-		if !strings.HasPrefix(filepath.ToSlash(name), vendored) {
+		// Only the vendored package's own files: a package below it is
+		// another package, and the design's.
+		if filepath.Dir(name) != vendored {
 			if err := designAttributes(f); err != nil {
 				refused.add(err)
 				return nil, err

@@ -403,6 +403,13 @@ func (c *validator) quantity(v cue.Value, a cue.Attribute) {
 		bad("%s", err)
 		return
 	}
+	// A quantity the schema leaves unbounded is bounded like a plain
+	// number, in SI units (a conductor of 1e-300 mm² would make a drop of
+	// 1e303 V).
+	if a := math.Abs(q.Value); a > maxMagnitude || (a != 0 && a < minMagnitude) {
+		bad("%q is too large or too small a %s to compute with", s, dim)
+		return
+	}
 	for i := 1; i < a.NumArgs(); i++ {
 		op, bound := a.Arg(i)
 		b, err := unit.ParseAs(bound, dim)

@@ -8,7 +8,6 @@ import (
 	"fmt"
 	"hash"
 	"path/filepath"
-	"strconv"
 	"strings"
 	"sync"
 )
@@ -42,9 +41,7 @@ func headOf(dir string) *head {
 		lines := strings.Fields(string(out))
 		if len(lines) == 3 {
 			h = &head{top: lines[0], format: lines[1], commit: lines[2]}
-			if t, err := git(dir, nil, "log", "-1", "--format=%ct", h.commit); err == nil {
-				h.time, _ = strconv.ParseInt(strings.TrimSpace(string(t)), 10, 64)
-			}
+			h.time = commitTime(dir, h.commit)
 		}
 	}
 	heads.Store(dir, h)

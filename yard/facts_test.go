@@ -70,8 +70,9 @@ func TestFactsDirtyOnlyForInputs(t *testing.T) {
 	}
 }
 
-// TestGitIgnoresRepositoryCommands: a repository's configured fsmonitor
-// command is never run when ampwright asks git about it.
+// TestGitIgnoresRepositoryCommands: a repository's configured fsmonitor,
+// pager or signature program is never run when ampwright asks git about
+// it.
 func TestGitIgnoresRepositoryCommands(t *testing.T) {
 	dir := gitRepo(t, map[string]string{"cue.mod/module.cue": "module: \"x.example/y\"\n", "hulls/a/a.cue": "package a\nvessel: {}\n"})
 	marker := filepath.Join(t.TempDir(), "ran")
@@ -79,9 +80,11 @@ func TestGitIgnoresRepositoryCommands(t *testing.T) {
 	if err := os.WriteFile(script, []byte("#!/bin/sh\ntouch "+marker+"\n"), 0o755); err != nil {
 		t.Fatal(err)
 	}
-	cfg := exec.Command("git", "-C", dir, "config", "core.fsmonitor", script)
-	if out, err := cfg.CombinedOutput(); err != nil {
-		t.Fatalf("%v: %s", err, out)
+	for _, kv := range [][2]string{{"core.fsmonitor", script}, {"core.pager", script}, {"log.showSignature", "true"}, {"gpg.program", script}} {
+		cfg := exec.Command("git", "-C", dir, "config", kv[0], kv[1])
+		if out, err := cfg.CombinedOutput(); err != nil {
+			t.Fatalf("%v: %s", err, out)
+		}
 	}
 	heads.Delete(dir)
 	FactsOf(dir, []string{filepath.Join(dir, "hulls/a/a.cue")}, os.ReadFile)

@@ -109,9 +109,7 @@ func ReadRevision(moduleDir, rev string) (*Revision, error) {
 		}
 	}
 	rv := &Revision{Source: src, Commit: hash, Dir: abs}
-	if t, err := git(topDir, nil, "log", "-1", "--format=%ct", hash); err == nil {
-		rv.Time, _ = strconv.ParseInt(strings.TrimSpace(string(t)), 10, 64)
-	}
+	rv.Time = commitTime(topDir, hash)
 	return rv, nil
 }
 
