@@ -57,8 +57,19 @@ func (c *validator) crossCheck() {
 	for _, name := range c.keys("arrays") {
 		c.ref(cue.MakePath(cue.Str("arrays"), cue.Str(name)), "controller", "a controller in controllers", controllers)
 	}
+	days := 0.0
 	for _, leg := range elements(c.root.LookupPath(cue.ParsePath("voyage.legs"))) {
 		c.ref(leg.Path(), "scenario", "a scenario in scenarios", scenarios)
+		if d, err := leg.LookupPath(cue.ParsePath("days")).Float64(); err == nil {
+			days += d
+		}
+	}
+	// The voyage is simulated hour by hour and its hours are in the
+	// result: a voyage of thousands of legs would cost time and memory to
+	// no purpose.
+	if days > maxVoyageDays {
+		p := cue.ParsePath("voyage.legs")
+		c.errs.Add(c.dataPos(p), p.String(), "the voyage's legs add up to %g days; a design voyage may last at most %d days (ten years)", days, maxVoyageDays)
 	}
 	c.ref(cue.ParsePath("autonomy"), "scenario", "a scenario in scenarios", scenarios)
 	c.months()
@@ -152,6 +163,9 @@ func (c *validator) hoursWithinScenarios(scenarios []string) {
 		}
 	}
 }
+
+// maxVoyageDays bounds the design voyage.
+const maxVoyageDays = 3660
 
 // months checks the months in use: no month twice, and irradiation given
 // for each.

@@ -90,6 +90,9 @@ func (g *gatherer) optional(name string) ([]byte, error) {
 	if err != nil {
 		return nil, err
 	}
+	if !utf8.Valid(b) {
+		g.notUTF8 = append(g.notUTF8, name)
+	}
 	g.files[name] = b
 	return b, nil
 }

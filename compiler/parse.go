@@ -6,6 +6,8 @@ import (
 	"sync"
 	"unicode/utf8"
 
+	"cuelang.org/go/cue/scanner"
+
 	"cuelang.org/go/cue/ast"
 	"cuelang.org/go/cue/errors"
 	"cuelang.org/go/cue/parser"
@@ -24,7 +26,8 @@ import (
 //     loosen them;
 //   - embedding files (@extern(embed), @embed): an embedded file would be
 //     read by CUE, outside the guard and outside the inputs hash that a
-//     reviewer and the diff rely on.
+//     reviewer and the diff rely on;
+//   - nesting deeper than maxNesting, before it is parsed.
 //
 // The vendored copy of the schema (checked identical to the embedded one
 // before loading) is the one file allowed the schema's attributes.
@@ -40,6 +43,12 @@ func hullParser(root, home string, refused *refusals) func(name string, src any,
 	vendored := filepath.Join(root, vendoredDir)
 	return func(name string, src any, cfg parser.Config) (*ast.File, error) {
 		full := cfg.Mode&(parser.ImportsOnly|parser.PackageClauseOnly) == 0
+		if b, ok := src.([]byte); ok && full {
+			if err := nesting(name, b); err != nil {
+				refused.add(err)
+				return nil, err
+			}
+		}
 		f, err := parser.ParseFile(name, src, cfg)
 		if err != nil || !full {
 			return f, err
@@ -114,4 +123,48 @@ func (r *refusals) err() errors.Error {
 	r.mu.Lock()
 	defer r.mu.Unlock()
 	return r.errs
+}
+
+// maxNesting bounds how deeply a design file nests fields, structs and
+// lists within each other. CUE's parser bounds an expression's nesting but
+// not a chain of fields (a: a: a: …), and its syntax tree is walked
+// recursively: a chain of 300,000 overflows the stack, which no program
+// can recover from. No design nests more than a few levels.
+const maxNesting = 1000
+
+// nesting refuses a file that nests deeper than maxNesting, found by
+// scanning its tokens: each field of a chain (a colon) and each open
+// bracket is one level, a comma (written, or at a line's end) ends a
+// chain.
+func nesting(name string, src []byte) errors.Error {
+	tf := token.NewFile(name, -1, len(src))
+	var s scanner.Scanner
+	s.Init(tf, src, nil, 0)
+	chains := []int{0} // colons of the chain open at each bracket level
+	depth := 0
+	for {
+		pos, tok, _ := s.Scan()
+		switch tok {
+		case token.EOF:
+			return nil
+		case token.COLON:
+			chains[len(chains)-1]++
+			depth++
+		case token.COMMA:
+			depth -= chains[len(chains)-1]
+			chains[len(chains)-1] = 0
+		case token.LBRACE, token.LBRACK, token.LPAREN:
+			chains = append(chains, 0)
+			depth++
+		case token.RBRACE, token.RBRACK, token.RPAREN:
+			if len(chains) > 1 {
+				depth -= chains[len(chains)-1] + 1
+				chains = chains[:len(chains)-1]
+			}
+			// The chain that held the bracket ends with it too.
+		}
+		if depth > maxNesting {
+			return errors.Newf(pos, "the file nests fields, structs and lists more than %d levels deep; ampwright takes designs of at most %d", maxNesting, maxNesting)
+		}
+	}
 }

@@ -310,6 +310,30 @@ func TestHostileAttributes(t *testing.T) {
 	h := newHostile(t)
 	h.refusedEverywhere(h.hull("attr-q"), `hulls/attr-q/hull.cue:9:72: attribute @q: @q is the schema's`)
 	h.refusedEverywhere(h.hull("attr-q-import"), `looseparts/looseparts.cue:5:18: attribute @q: @q is the schema's`)
+	// In a package below the vendored schema's directory, which is not the
+	// schema's, and in the catalog.
+	h.write("yard/cue.mod/pkg/ampwright.dev/schema/sub/sub.cue", "package sub\n\nlength: \"1000 m\" @q(length,le=\"2000 m\")\n")
+	h.write("yard/hulls/attr-q-import/hull.cue", strings.Replace(h.read("yard/hulls/attr-q-import/hull.cue"), `"hostile.example/yard/looseparts"`, `looseparts "ampwright.dev/schema/sub"`, 1))
+	h.refused(h.run("check", h.hull("attr-q-import")), `cue.mod/pkg/ampwright.dev/schema/sub/sub.cue:3:18: attribute @q`)
+	h.write("yard/catalog/more.cue", "package catalog\n\nbattery: agm105: capacity: _ @q(charge,gt=\"0 Ah\")\n")
+	h.refused(h.run("check", h.hull("good")), `catalog/more.cue:3:30: attribute @q`)
+}
+
+func (h *hostile) read(rel string) string {
+	h.t.Helper()
+	b, err := os.ReadFile(h.path(rel))
+	if err != nil {
+		h.t.Fatal(err)
+	}
+	return string(b)
+}
+
+// A chain of fields 300,000 deep would overflow the stack of CUE's parser,
+// a crash no program recovers from.
+func TestHostileNesting(t *testing.T) {
+	h := newHostile(t)
+	h.write("yard/hulls/good/deep.cue", "package hull\n\n_x: "+strings.Repeat("a: ", 300000)+"1\n")
+	h.refusedEverywhere(h.hull("good"), `hulls/good/deep.cue:3:3003: the file nests fields, structs and lists more than 1000 levels deep`)
 }
 
 func TestHostileNotUTF8(t *testing.T) {
@@ -325,6 +349,7 @@ func TestHostileInputErrors(t *testing.T) {
 		{"hours", `base/base.cue:19:94: loads.fridge.hours.anchor: 24 hours in scenario "anchor", whose period is 12 hours(?s:.*)hull.cue:10:32: scenarios.anchor.engineHours: 13 engine hours`},
 		{"fed-from-load", `hull.cue:11:24: wiring."fridge-aux".from: the run is fed from load "fridge"`},
 		{"empty-table", `hull.cue:11:29: rules.ampacity.table: the table is empty(?s:.*)rules.protection.standardRatings: the table is empty(?s:.*)rules.vocFactor.rows: the table is empty`},
+		{"voyage-long", `hull.cue:13:24: voyage.legs: the voyage's legs add up to 36500 days`},
 		{"inverted-range", `rules.chargeRate.leadAcidMin: the minimum 0.5 is more than the maximum(?s:.*)rules.pv.fuseMin: the minimum 2 is more than the maximum`},
 	} {
 		t.Run(tc.hull, func(t *testing.T) {
