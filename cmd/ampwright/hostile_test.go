@@ -365,6 +365,9 @@ func TestHostileModules(t *testing.T) {
 	h.refused(h.run("check", "../../testdata/designs/remote/hulls/remote"), `the design asks for module registry.example/parts@v0.1.0; ampwright never downloads modules`)
 }
 
+// stopped is the message of a design stopped at either bound.
+const stopped = `stopped: it (took longer than the --timeout bound of [0-9]+s|needed more memory than the --max-memory bound of [0-9]+MiB)`
+
 // The time and memory bounds end the process that passes them: the
 // command runs as its own process here.
 func TestHostileBounds(t *testing.T) {
@@ -378,10 +381,36 @@ func TestHostileBounds(t *testing.T) {
 
 	// Several designs: each in a worker; the one that passes a bound is
 	// reported, the others are checked.
-	o := h.exec("check", "--timeout", "2s", "--max-memory", "100MiB", h.hull("good"), h.hull("slow"), h.hull("greedy"))
-	h.refused(o, `hulls/slow: 1 input error\(s\)\n\s*stopped: it took longer than the --timeout bound of 2s(?s:.*)hulls/greedy: 1 input error\(s\)\n\s*stopped: it needed more memory`)
+	// Which bound a runaway design passes first depends on the machine's
+	// speed; either stops it.
+	o := h.exec("check", "--timeout", "2s", "--max-memory", "200MiB", h.hull("good"), h.hull("slow"), h.hull("greedy"))
+	h.refused(o, `hulls/slow: 1 input error\(s\)\n\s*`+stopped+`(?s:.*)hulls/greedy: 1 input error\(s\)\n\s*`+stopped)
 	if !strings.Contains(o.stdout, "Good  H-1") {
 		t.Errorf("check of several designs did not report the good one:\n%s", o.all())
+	}
+
+	// A diff whose head adds the slow and greedy hulls and changes a good
+	// one: the two are broken, named with their bounds, and the change to
+	// the good one is still reported.
+	base := filepath.Join(h.dir, "base")
+	if err := os.CopyFS(base, os.DirFS(h.yard)); err != nil {
+		t.Fatal(err)
+	}
+	for _, dir := range []string{"slow", "greedy", "loads-10k"} {
+		os.RemoveAll(filepath.Join(base, "hulls", dir))
+	}
+	os.RemoveAll(h.hull("loads-10k"))
+	h.write("yard/hulls/hours/hull.cue", strings.Replace(h.read("yard/hulls/hours/hull.cue"), "hours: 12, engineHours: 13", "hours: 24, engineHours: 2", 1))
+	d := h.exec("diff", "--timeout", "2s", "--max-memory", "200MiB", base, h.yard)
+	h.clean(d)
+	for _, want := range []string{
+		`hulls/slow: broken\n\s*error: ` + stopped,
+		`hulls/greedy: broken\n\s*error: ` + stopped,
+		`hulls/hours \(Hours H-17\): (added|changed)`,
+	} {
+		if !regexp.MustCompile(want).MatchString(d.stdout) {
+			t.Errorf("diff does not say %q:\n%s", want, d.all())
+		}
 	}
 }
 
@@ -403,13 +432,13 @@ func TestHostileFleet(t *testing.T) {
 	}
 	// A hull whose directory's name would clear a terminal.
 	h.write("yard/hulls/esc\x1b[2J\u202e/hull.cue", "package hull\n\nimport \"hostile.example/yard/base\"\n\nbase.hull\n\nvessel: {name: \"Esc\", hull: \"H-21\", kind: \"sloop\", length: \"7.5 m\", system: \"12 V\"}\n")
-	bounds := []string{"--timeout", "3s", "--max-memory", "150MiB"}
+	bounds := []string{"--timeout", "3s", "--max-memory", "200MiB"}
 	o := h.exec(append([]string{"fleet"}, append(bounds, h.yard)...)...)
-	h.refused(o, `hulls/slow: 1 input error\(s\)\n\s*stopped: it took longer than the --timeout bound of 3s`)
+	h.refused(o, `hulls/slow: 1 input error\(s\)\n\s*`+stopped)
 	h.clean(o)
 	for _, want := range []string{
 		`hulls/good +Good H-1 +PASS`,
-		`hulls/greedy: 1 input error\(s\)\n\s*stopped: it needed more memory than the --max-memory bound of 150MiB`,
+		`hulls/greedy: 1 input error\(s\)\n\s*` + stopped,
 		`hulls/link-cue/leak.cue leads outside the module through a symbolic link`,
 		`hulls/dev-zero/zero.cue leads outside the module through a symbolic link`,
 		`hulls/fifo/pipe.cue is not a regular file`,
