@@ -74,17 +74,17 @@ func (g *guardFS) shown(name string) string {
 func (g *guardFS) refuse(name string, err error) error {
 	r := &refusal{path: g.shown(name)}
 	switch {
+	case g.leadsOut(name):
+		r.why = outside
 	case errors.Is(err, fs.ErrNotExist):
 		r.why, r.kind = "does not exist", fs.ErrNotExist
-		if g.leadsOut(name) {
-			r.why, r.kind = outside, nil
-		}
 	case errors.Is(err, fs.ErrPermission):
 		r.why, r.kind = "cannot be read: permission denied", fs.ErrPermission
 	case errors.Is(err, syscall.ELOOP):
 		r.why = "is a symbolic link in a loop"
-	case g.leadsOut(name):
-		r.why = outside
+	case !g.isLink(name):
+		// Opening a socket fails; so would any special file.
+		r.why = notRegular
 	default:
 		// os.Root refuses a link with an absolute target even when it
 		// points back inside.
@@ -93,28 +93,53 @@ func (g *guardFS) refuse(name string, err error) error {
 	return r
 }
 
-const outside = "leads outside the module through a symbolic link; ampwright reads nothing outside the design's module"
+const (
+	outside    = "leads outside the module through a symbolic link; ampwright reads nothing outside the design's module"
+	notRegular = "is not a regular file (a device, FIFO or socket?); ampwright reads only regular files"
+)
 
-// leadsOut reports whether name, once its links are followed, lies outside
-// the module. A link that leads nowhere counts as leading out when its
-// parent does.
+// isLink reports whether name is itself a symbolic link.
+func (g *guardFS) isLink(name string) bool {
+	fi, err := g.root.Lstat(name)
+	return err == nil && fi.Mode()&fs.ModeSymlink != 0
+}
+
+// leadsOut reports whether name, or a directory on its way, is a symbolic
+// link that leads outside the module. Only links are looked at, never a
+// file's contents. A link that leads nowhere counts by what it names.
 func (g *guardFS) leadsOut(name string) bool {
 	realRoot, err := filepath.EvalSymlinks(g.dir)
 	if err != nil {
 		return false
 	}
-	p := filepath.Join(g.dir, filepath.FromSlash(name))
-	real, err := filepath.EvalSymlinks(p)
-	if err != nil {
-		if target, lerr := os.Readlink(p); lerr == nil {
+	p := g.dir
+	for _, part := range strings.Split(name, "/") {
+		p = filepath.Join(p, part)
+		fi, err := os.Lstat(p)
+		if err != nil {
+			return false
+		}
+		if fi.Mode()&fs.ModeSymlink == 0 {
+			continue
+		}
+		real, err := filepath.EvalSymlinks(p)
+		if err != nil {
+			target, err := os.Readlink(p)
+			if err != nil {
+				return false
+			}
 			if !filepath.IsAbs(target) {
 				target = filepath.Join(filepath.Dir(p), target)
 			}
-			return !within(realRoot, filepath.Clean(target)) && !within(g.dir, filepath.Clean(target))
+			target = filepath.Clean(target)
+			return !within(realRoot, target) && !within(g.dir, target)
 		}
-		return false
+		if !within(realRoot, real) {
+			return true
+		}
+		p = real
 	}
-	return !within(realRoot, real)
+	return false
 }
 
 func within(root, p string) bool {
@@ -160,7 +185,7 @@ func (g *guardFS) Open(name string) (fs.File, error) {
 // admit checks a file about to be read against the kind and the limits.
 func (g *guardFS) admit(name string, fi fs.FileInfo) error {
 	if !fi.Mode().IsRegular() {
-		return &refusal{path: g.shown(name), why: "is not a regular file (a device, FIFO or socket?); ampwright reads only regular files"}
+		return &refusal{path: g.shown(name), why: notRegular}
 	}
 	if g.lim.MaxFile > 0 && fi.Size() > g.lim.MaxFile {
 		return &refusal{path: g.shown(name), why: fmt.Sprintf("is %d bytes, more than the %d-byte limit for one file (a bound that keeps a hostile design from exhausting CI)", fi.Size(), g.lim.MaxFile)}
