@@ -368,7 +368,10 @@ func (c *validator) quantity(v cue.Value, a cue.Attribute) {
 	if c.clean {
 		// In a clean design the unified value is the design's own; looking
 		// it up in the design as written would evaluate that a second time.
-		if _, isDefault := v.Default(); isDefault {
+		// A default is the schema's only when the design does not write
+		// the field: a design's own default (*"1000 m" | "5 m") is the
+		// value used, and is checked like any other.
+		if _, isDefault := v.Default(); isDefault && !c.data.LookupPath(v.Path()).Exists() {
 			return // the schema's default
 		}
 		dv = v

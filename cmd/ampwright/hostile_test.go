@@ -310,6 +310,8 @@ func TestHostileAttributes(t *testing.T) {
 	h := newHostile(t)
 	h.refusedEverywhere(h.hull("attr-q"), `hulls/attr-q/hull.cue:9:72: attribute @q: @q is the schema's`)
 	h.refusedEverywhere(h.hull("attr-q-import"), `looseparts/looseparts.cue:5:18: attribute @q: @q is the schema's`)
+	// A default of the design's own is checked against the schema's limit.
+	h.refusedEverywhere(h.hull("default-loosen"), `hulls/default-loosen/hull.cue:9:63: vessel.length: "1000 m" is out of range; it must be at most 100 m`)
 	// In a package below the vendored schema's directory, which is not the
 	// schema's, and in the catalog.
 	h.write("yard/cue.mod/pkg/ampwright.dev/schema/sub/sub.cue", "package sub\n\nlength: \"1000 m\" @q(length,le=\"2000 m\")\n")
