@@ -198,8 +198,14 @@ func (w *proc) ended() error {
 }
 
 // kill ends the worker and whatever it started (git), and waits for it.
+// A worker already reaped is not signalled: its process group's number
+// may be another's by then.
 func (w *proc) kill() {
-	killGroup(w.cmd)
+	select {
+	case <-w.exited:
+	default:
+		killGroup(w.cmd)
+	}
 	w.stdin.Close()
 	go w.drain()
 	<-w.exited
