@@ -129,6 +129,10 @@ func DefaultBase(dir string) string {
 	return "HEAD"
 }
 
+// maxRevisionFiles bounds the .cue files of a revision's module: empty
+// files cost nothing against the size limit, and each is read and kept.
+const maxRevisionFiles = 100000
+
 // revEntry is a file of a revision's module that ampwright may read.
 type revEntry struct {
 	path, object string // path relative to the module
@@ -163,6 +167,9 @@ func revisionEntries(list []byte, prefix string, src *compiler.Source) ([]revEnt
 		}
 		if total += size; total > lim.MaxModule {
 			return nil, fmt.Errorf("the .cue files of %s exceed the %d-byte limit for a revision", strings.TrimSuffix(src.Label, "/"), lim.MaxModule)
+		}
+		if len(out) >= maxRevisionFiles {
+			return nil, fmt.Errorf("%s has more than %d .cue files, the limit for a revision", strings.TrimSuffix(src.Label, "/"), maxRevisionFiles)
 		}
 		out = append(out, revEntry{path: rel, object: f[2], size: size, link: f[0] == "120000"})
 	}
