@@ -679,3 +679,25 @@ func TestHostileGit(t *testing.T) {
 		t.Error("ampwright let git run the repository's configured command")
 	}
 }
+
+// An output that cannot be written is an error of exit status 2 that says
+// what failed, with no word about usage: the command line was right.
+func TestIOErrorNoUsageHint(t *testing.T) {
+	h := newHostile(t)
+	o := h.run("pack", h.hull("good"), "-o", filepath.Join(h.dir, "no", "such", "dir", "x.pdf"))
+	h.refused(o, `cannot write .*x\.pdf: no such file or directory`)
+	if strings.Contains(o.all(), "--help") || strings.Contains(o.all(), "usage") {
+		t.Errorf("an I/O error comes with a usage hint:\n%s", o.all())
+	}
+	if f, err := os.OpenFile("/dev/full", os.O_WRONLY, 0); err == nil {
+		defer f.Close()
+		var stderr bytes.Buffer
+		if code := run([]string{"check", h.hull("good")}, f, &stderr); code != exitInput || strings.Contains(stderr.String(), "--help") || !strings.Contains(stderr.String(), "no space left") {
+			t.Errorf("check to a full device: exit %d:\n%s", code, stderr.String())
+		}
+	}
+	// A bad command line still says where the usage is.
+	if o := h.run("pack", "--no-such-flag"); o.code != exitInput || !strings.Contains(o.stderr, "Run 'ampwright pack --help' for usage.") {
+		t.Errorf("a bad flag: exit %d:\n%s", o.code, o.all())
+	}
+}
