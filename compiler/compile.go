@@ -19,13 +19,14 @@ package compiler
 
 import (
 	"encoding/json"
+	"errors"
 	"fmt"
-	"os"
 	"path/filepath"
 
 	"cuelang.org/go/cue"
 	"cuelang.org/go/cue/build"
 	"cuelang.org/go/cue/cuecontext"
+	cueerrors "cuelang.org/go/cue/errors"
 	"cuelang.org/go/cue/token"
 
 	"github.com/ampwright/ampwright/energy"
@@ -54,7 +55,15 @@ type Design struct {
 	pos map[string]token.Pos
 	// value is the design unified with the schema.
 	value cue.Value
+	// read returns an input file's contents as loaded.
+	read func(string) ([]byte, error)
+	// home is the hull's package directory as its files' positions name it.
+	home string
 }
+
+// ReadInput returns the contents of one of the design's input files
+// (Files) as they were loaded: the file is not read again.
+func (d *Design) ReadInput(file string) ([]byte, error) { return d.read(file) }
 
 // Position returns the design's file:line:col for a CUE path such as
 // wiring."bank-main", or of the nearest entry that holds it, or "" when
@@ -89,27 +98,30 @@ func Load(dir string) (*Design, error) {
 type loaded struct {
 	inst  *build.Instance
 	files []string // the package's files and its imports', sorted
-	root  string   // the module root
-	read  func(string) ([]byte, error)
+	src   *Source  // the files cue/load was given, by module path
+	root  string   // the module root: on disk, or the source's in memory
+}
+
+// read returns an input file's contents as they were loaded.
+func (l loaded) read(name string) ([]byte, error) {
+	rel, err := filepath.Rel(l.root, name)
+	if err != nil {
+		return nil, err
+	}
+	b, ok := l.src.Files[filepath.ToSlash(rel)]
+	if !ok {
+		return nil, fmt.Errorf("%s is not among the design's files", displayName(name))
+	}
+	return b, nil
 }
 
 // loadPackage loads the hull's package from src, or the host file system
 // when src is nil.
 func loadPackage(dir string, src *Source) (loaded, error) {
-	var l loaded
-	var err error
 	if src != nil {
-		l.inst, l.files, err = loadSourceInstance(dir, src)
-		l.root, l.read = src.root(), src.read
-		return l, err
+		return loadSource(dir, src)
 	}
-	l.inst, l.files, err = loadInstance(dir)
-	abs, _ := filepath.Abs(dir)
-	if l.root = moduleRoot(abs); l.root == "" {
-		l.root = abs
-	}
-	l.read = os.ReadFile
-	return l, err
+	return loadDisk(dir)
 }
 
 // LoadFrom is Load reading from src, where dir is the hull's directory
@@ -118,8 +130,9 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 	ctx := cuecontext.New()
 	l, err := loadPackage(dir, src)
 	if err != nil {
-		if l.inst == nil {
-			return nil, ErrorList{{Msg: err.Error()}}
+		var positioned cueerrors.Error
+		if l.inst == nil && !errors.As(err, &positioned) {
+			return nil, ErrorList{{Msg: unvirtual(err.Error())}}
 		}
 		return nil, loadErrors(err)
 	}
@@ -160,7 +173,9 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 	if err := sch.LookupPath(schema.DefaultPath).Decode(&rules); err != nil {
 		return nil, fmt.Errorf("internal error: the default rulebook does not decode: %v", err)
 	}
-	if errs := append(irradiationBounds(v, &spec), moduleEfficiency(v, &spec)...); len(errs) > 0 {
+	errs := append(irradiationBounds(v, &spec), moduleEfficiency(v, &spec)...)
+	errs = append(errs, rulebookErrors(v, spec.Rules)...)
+	if len(errs) > 0 {
 		return nil, errs.Err()
 	}
 	d := &Design{
@@ -172,6 +187,8 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 		Rules: rules.Over(spec.Rules),
 		pos:   entryPositions(&validator{root: unified, data: data, home: inst.Dir}),
 		value: unified,
+		read:  l.read,
+		home:  inst.Dir,
 	}
 	return d, nil
 }

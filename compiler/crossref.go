@@ -57,8 +57,19 @@ func (c *validator) crossCheck() {
 	for _, name := range c.keys("arrays") {
 		c.ref(cue.MakePath(cue.Str("arrays"), cue.Str(name)), "controller", "a controller in controllers", controllers)
 	}
+	days := 0.0
 	for _, leg := range elements(c.root.LookupPath(cue.ParsePath("voyage.legs"))) {
 		c.ref(leg.Path(), "scenario", "a scenario in scenarios", scenarios)
+		if d, err := leg.LookupPath(cue.ParsePath("days")).Float64(); err == nil {
+			days += d
+		}
+	}
+	// The voyage is simulated hour by hour and its hours are in the
+	// result: a voyage of thousands of legs would cost time and memory to
+	// no purpose.
+	if days > maxVoyageDays {
+		p := cue.ParsePath("voyage.legs")
+		c.errs.Add(c.dataPos(p), p.String(), "the voyage's legs add up to %g days; a design voyage may last at most %d days (ten years)", days, maxVoyageDays)
 	}
 	c.ref(cue.ParsePath("autonomy"), "scenario", "a scenario in scenarios", scenarios)
 	c.months()
@@ -99,6 +110,8 @@ func (c *validator) crossCheck() {
 	for _, group := range []string{"scenarios", "loads", "wiring", "buses", "arrays", "controllers", "chargers", "inverters", "banks", "links", "converters"} {
 		c.similarNames(group)
 	}
+	c.fedFromLoad(wiring, loads)
+	c.hoursWithinScenarios(scenarios)
 	c.systemRefs(scenarios)
 }
 
@@ -160,6 +173,58 @@ func (c *validator) bankNames() ([]string, bool) {
 	}
 	return c.keys("banks"), false
 }
+
+// fedFromLoad reports a run whose supply end is a load: a load is where
+// the wiring ends, and a run "from" it would be fed by a consumer.
+func (c *validator) fedFromLoad(wiring, loads []string) {
+	for _, name := range wiring {
+		p := cue.MakePath(cue.Str("wiring"), cue.Str(name), cue.Str("from"))
+		from, err := c.root.LookupPath(p).String()
+		if err != nil || !contains(loads, from) {
+			continue
+		}
+		c.errs.Add(c.dataPos(p), p.String(), "the run is fed from load %q: a run's from is its supply end, nearer the bank, and a load feeds nothing; feed the run from a bus or the bank", from)
+	}
+}
+
+// hoursWithinScenarios reports hours of a load, inverter or charger, and
+// engine hours, longer than the period of their scenario: a load cannot
+// run 24 hours of a 12-hour period.
+func (c *validator) hoursWithinScenarios(scenarios []string) {
+	period := map[string]float64{}
+	for _, s := range scenarios {
+		p := cue.MakePath(cue.Str("scenarios"), cue.Str(s), cue.Str("hours"))
+		h, err := c.root.LookupPath(p).Float64()
+		if err != nil {
+			continue
+		}
+		period[s] = h
+		ep := cue.MakePath(cue.Str("scenarios"), cue.Str(s), cue.Str("engineHours"))
+		if e, err := c.root.LookupPath(ep).Float64(); err == nil && e > h {
+			c.errs.Add(c.dataPos(ep), ep.String(), "%g engine hours in scenario %q, whose period is %g hours; the engine cannot run longer than the period", e, s, h)
+		}
+	}
+	for _, group := range []string{"loads", "inverters", "chargers"} {
+		for _, name := range c.keys(group) {
+			base := cue.MakePath(cue.Str(group), cue.Str(name), cue.Str("hours"))
+			for _, s := range c.keysAt(base) {
+				limit, ok := period[s]
+				if !ok {
+					continue // an unknown scenario, reported above
+				}
+				p := appendPath(base, s)
+				h, err := c.root.LookupPath(p).Float64()
+				if err != nil || h <= limit {
+					continue
+				}
+				c.errs.Add(c.dataPos(p), p.String(), "%g hours in scenario %q, whose period is %g hours; give at most %g, or lengthen the scenario's hours", h, s, limit, limit)
+			}
+		}
+	}
+}
+
+// maxVoyageDays bounds the design voyage.
+const maxVoyageDays = 3660
 
 // months checks the months in use: no month twice, and irradiation given
 // for each.

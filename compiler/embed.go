@@ -2,32 +2,12 @@ package compiler
 
 import (
 	"path"
-	"path/filepath"
 	"strconv"
 
 	"cuelang.org/go/cue/ast"
-	"cuelang.org/go/cue/parser"
 
 	"github.com/ampwright/ampwright/schema"
 )
-
-// hullParser parses the files cue/load reads and, in the hull's own
-// directory, takes out an embedding of the vendored #Design (and its import
-// when nothing else uses it). ampwright unifies every design with its own
-// #Design, identical to a current vendored copy, so the embedding would
-// only make CUE evaluate the schema's constraints twice; and it does not
-// make CUE close the structs a misspelt field hides in, which the unified
-// #Design does. The files on disk are not touched.
-func hullParser(home string) func(name string, src any, cfg parser.Config) (*ast.File, error) {
-	home = filepath.Clean(home)
-	return func(name string, src any, cfg parser.Config) (*ast.File, error) {
-		f, err := parser.ParseFile(name, src, cfg)
-		if err == nil && filepath.Clean(filepath.Dir(name)) == home {
-			dropDesignEmbed(f)
-		}
-		return f, err
-	}
-}
 
 // dropDesignEmbed removes a top-level embedding of the vendored #Design
 // from f, and the schema's import when the file no longer refers to it.

@@ -3,6 +3,7 @@ package compiler
 import (
 	"fmt"
 	"os"
+	"path"
 	"path/filepath"
 	"sort"
 	"strings"
@@ -132,7 +133,7 @@ func (l ErrorList) Problems() []result.Problem {
 func isSchemaPos(p token.Pos) bool {
 	f := filepath.ToSlash(p.Filename())
 	return strings.HasPrefix(f, schema.FilePrefix) ||
-		strings.Contains(f, "/cue.mod/pkg/"+schema.ImportPath+"/")
+		strings.HasSuffix(path.Dir(f), "/cue.mod/pkg/"+schema.ImportPath)
 }
 
 // designPos picks the first position that is the design's own from ps,

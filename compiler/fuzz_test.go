@@ -1,11 +1,18 @@
 package compiler
 
 import (
+	"bytes"
+	"encoding/json"
 	"errors"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
+	"unicode/utf8"
+
+	"github.com/ampwright/ampwright/report"
+	"github.com/ampwright/ampwright/result"
 )
 
 // The fuzz targets replay their seeds in every `go test`. Run them for
@@ -25,10 +32,25 @@ func seedHull(t testing.TB) string {
 	return string(b)
 }
 
-// checkOutcome fails on an outcome other than a design or a list of
-// positioned, plain errors.
-func checkOutcome(t *testing.T, err error) {
+// checkOutcome fails on an outcome other than a result or a list of
+// positioned, plain errors, and renders either as the command would: the
+// result as JSON and text, the errors as text. The JSON must be valid and
+// UTF-8, the text UTF-8 with no character that acts (control characters
+// but the line break, bidirectional controls, separators).
+func checkOutcome(t *testing.T, r *result.Result, err error) {
+	var text bytes.Buffer
 	if err == nil {
+		var js bytes.Buffer
+		if jerr := report.JSON(&js, r); jerr != nil {
+			t.Fatalf("the result does not render as JSON: %v", jerr)
+		}
+		if !json.Valid(js.Bytes()) || !utf8.Valid(js.Bytes()) {
+			t.Fatalf("the JSON is not valid UTF-8 JSON:\n%s", js.Bytes())
+		}
+		if terr := report.Text(&text, r); terr != nil {
+			t.Fatalf("the result does not render as text: %v", terr)
+		}
+		checkInert(t, text.String())
 		return
 	}
 	var list ErrorList
@@ -43,6 +65,10 @@ func checkOutcome(t *testing.T, err error) {
 			t.Fatalf("a stack trace in a message: %s", e.Msg)
 		}
 	}
+	if err := report.Problems(&text, list.Problems()); err != nil {
+		t.Fatal(err)
+	}
+	checkInert(t, text.String())
 }
 
 // FuzzLoad loads arbitrary bytes as a hull outside any module: the loader
@@ -55,6 +81,15 @@ func FuzzLoad(f *testing.F) {
 	f.Add("package x\n_l: [for i in [1,2,3] {i}]\nsite: latitude: _l\n")
 	f.Add("{{{{")
 	f.Add("")
+	// From the hostile corpus (testdata/hostile): a limit loosened by the
+	// design, embedding, names that act on a terminal, numbers float64
+	// cannot hold, bytes that are not UTF-8.
+	f.Add("package x\nvessel: length: \"1000 m\" @q(length, le=\"2000 m\")\n")
+	f.Add("@extern(embed)\npackage x\nd: _ @embed(file=secret.json)\n")
+	f.Add("package x\nvessel: {name: \"A\\u001b[2J\\u202e\\r\\nPASS\", hull: \"\\u0085\\u2066\"}\n")
+	f.Add("package x\nrules: bundling: {source: \"s\", steps: [{from: 1, factor: 1}], minVoltage: 1e400}\n")
+	f.Add("package x\nvessel: name: \"ab\xff\xfecd\"\n")
+	f.Add("package x\nscenarios: a: hours: 12\nloads: l: hours: a: 24\n")
 	f.Fuzz(func(t *testing.T, src string) {
 		if len(src) > 1<<16 {
 			return
@@ -63,8 +98,8 @@ func FuzzLoad(f *testing.F) {
 		if err := os.WriteFile(filepath.Join(dir, "hull.cue"), []byte(src), 0o644); err != nil {
 			t.Fatal(err)
 		}
-		_, _, err := Compile(dir)
-		checkOutcome(t, err)
+		r, err := compileWithin(t, dir)
+		checkOutcome(t, r, err)
 	})
 }
 
@@ -80,6 +115,11 @@ func FuzzCompile(f *testing.F) {
 	f.Add(11, "-0 °C")
 	f.Add(13, "1/0 AWG")
 	f.Add(20, "\" + x + \"")
+	f.Add(0, "Name\x1b[2J\u202e\r\nFAKE PASS\u0085\u2066")
+	f.Add(1, "\xff\xfe")
+	f.Add(5, "1e400 A")
+	f.Add(7, "Inf m")
+	f.Add(2, "**x** <img src=x> @octocat")
 	base := seedHull(f)
 	f.Fuzz(func(t *testing.T, n int, value string) {
 		if len(value) > 256 || n < 0 {
@@ -93,7 +133,44 @@ func FuzzCompile(f *testing.F) {
 		if err := os.WriteFile(filepath.Join(dir, "hull.cue"), []byte(strings.Join(parts, `"`)), 0o644); err != nil {
 			t.Fatal(err)
 		}
-		_, _, err := Compile(dir)
-		checkOutcome(t, err)
+		r, err := compileWithin(t, dir)
+		checkOutcome(t, r, err)
 	})
+}
+
+// compileWithin compiles dir, skipping an input that takes longer than a
+// few seconds: Compile has no time bound of its own (the command stops a
+// compile by ending its process), and the fuzzer would wait on it. The
+// abandoned compile runs on in the fuzzing process.
+func compileWithin(t *testing.T, dir string) (*result.Result, error) {
+	type answer struct {
+		r   *result.Result
+		err error
+	}
+	ch := make(chan answer, 1)
+	go func() {
+		r, _, err := Compile(dir)
+		ch <- answer{r, err}
+	}()
+	select {
+	case a := <-ch:
+		return a.r, a.err
+	case <-time.After(10 * time.Second):
+		t.Skip("compiling took longer than 10s; bounds are the command's (package worker)")
+		return nil, nil
+	}
+}
+
+// checkInert fails on text with a character that acts rather than shows.
+func checkInert(t *testing.T, s string) {
+	t.Helper()
+	if !utf8.ValidString(s) {
+		t.Fatalf("the text is not UTF-8: %q", s)
+	}
+	for _, r := range s {
+		if (r < 0x20 && r != '\n') || r == 0x7f || (r >= 0x80 && r <= 0x9f) || r == 0x061c || r == 0x200e || r == 0x200f ||
+			(r >= 0x202a && r <= 0x202e) || (r >= 0x2066 && r <= 0x2069) || r == 0x2028 || r == 0x2029 {
+			t.Fatalf("the text holds %U: %q", r, s)
+		}
+	}
 }

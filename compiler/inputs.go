@@ -1,9 +1,7 @@
 package compiler
 
 import (
-	"path"
 	"path/filepath"
-	"strings"
 
 	"cuelang.org/go/cue"
 )
@@ -67,19 +65,5 @@ func (d *Design) WrittenInHull(p string) bool {
 	if !pos.IsValid() {
 		return false
 	}
-	return filepath.Dir(pos.Filename()) == d.home()
-}
-
-// home is the hull's package directory as the positions of its files
-// name it: under the overlay root for a module read from a revision, the
-// absolute directory on disk otherwise.
-func (d *Design) home() string {
-	if strings.HasPrefix(d.Root, virtualBase) {
-		return d.Root + "/" + path.Clean(d.Dir)
-	}
-	abs, err := filepath.Abs(d.Dir)
-	if err != nil {
-		return d.Dir
-	}
-	return abs
+	return d.home != "" && filepath.Dir(pos.Filename()) == d.home
 }

@@ -5,6 +5,7 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
+	"io/fs"
 	"os"
 	"path"
 	"path/filepath"
@@ -58,35 +59,66 @@ func moduleRoot(dir string) string {
 	}
 }
 
-// Source is where a design's files come from when not from the host file
-// system: a whole module held in memory, as read from a git revision, so
-// that an old revision loads without touching the working tree.
+// Source is a module's files held in memory: a whole module as read from
+// a git revision, or the files one design is made of, as ampwright read
+// them through the guard (guardFS). cue/load is given them as an overlay
+// under a path that is not on the host, so it reads nothing itself.
 type Source struct {
 	// Files are the module's files by slash path relative to its root
 	// ("cue.mod/module.cue", "hulls/tern/tern.cue").
 	Files map[string][]byte
+	// Bad are paths of the module that may not be read, with the reason:
+	// a symbolic link that leads outside it, a file over the size limit.
+	Bad map[string]string
 	// Label prefixes file names in messages, such as "a1b2c3d:designs/".
 	Label string
 }
 
-// FS returns the source's files as a file system.
-func (s *Source) FS() fstest.MapFS {
+// FS returns the source's files as a file system. Opening a bad path
+// fails with its reason, and so does a file over the size limit.
+func (s *Source) FS() fs.FS {
 	m := fstest.MapFS{}
 	for name, b := range s.Files {
 		m[name] = &fstest.MapFile{Data: b, Mode: 0o644}
 	}
-	return m
+	for name := range s.Bad {
+		m[name] = &fstest.MapFile{Mode: 0o644}
+	}
+	return &sourceFS{MapFS: m, src: s}
 }
+
+// sourceFS is a Source as a file system, refusing its bad paths.
+type sourceFS struct {
+	fstest.MapFS
+	src *Source
+}
+
+func (f *sourceFS) Open(name string) (fs.File, error) {
+	if why, ok := f.src.Bad[name]; ok {
+		return nil, &refusal{path: f.src.Label + name, why: why}
+	}
+	if b, ok := f.src.Files[name]; ok && int64(len(b)) > DefaultLimits.MaxFile {
+		return nil, &refusal{path: f.src.Label + name, why: fmt.Sprintf("is %d bytes, more than the %d-byte limit for one file", len(b), DefaultLimits.MaxFile)}
+	}
+	return f.MapFS.Open(name)
+}
+
+func (f *sourceFS) ReadFile(name string) ([]byte, error) { return fs.ReadFile(onlyFS{f}, name) }
+
+// onlyFS hides every method but Open, so that fs.ReadFile goes through it.
+type onlyFS struct{ fs.FS }
 
 // virtualBase is where a source's files are laid out for cue/load: a path
 // that is not on the host, so every file comes from memory. (cue/load's
-// in-memory file systems do not yet resolve cue.mod/pkg imports, so the
-// source is given as an overlay.)
-const virtualBase = "/.ampwright-revision"
+// io/fs mode, Config.FS, does not resolve packages under cue.mod/pkg in
+// v0.17.1, so the source is given as an overlay.)
+const virtualBase = "/.ampwright-source"
 
-// root is the source's module root in the overlay.
+// root is the source's module root in the overlay: one directory per
+// label, so that messages can name each file by its label.
 func (s *Source) root() string {
-	return virtualBase + "/" + strings.Trim(strings.NewReplacer(":", "/", "\\", "/").Replace(s.Label), "/")
+	sum := sha256.Sum256([]byte(s.Label))
+	return virtualBase + "/" + hex.EncodeToString(sum[:8])
 }
 
 // read returns a file of the source by its overlay path.
@@ -94,7 +126,7 @@ func (s *Source) read(name string) ([]byte, error) {
 	rel := strings.TrimPrefix(filepath.ToSlash(name), s.root()+"/")
 	b, ok := s.Files[rel]
 	if !ok {
-		return nil, fmt.Errorf("%s: not in the revision", name)
+		return nil, fmt.Errorf("%s%s is not among the design's files", s.Label, rel)
 	}
 	return b, nil
 }
@@ -102,69 +134,98 @@ func (s *Source) read(name string) ([]byte, error) {
 // labels maps overlay roots to the labels messages show them by.
 var labels sync.Map
 
-// loadSourceInstance loads the package in dir, a slash path relative to
-// the source's module root.
-func loadSourceInstance(dir string, src *Source) (*build.Instance, []string, error) {
-	if err := checkSourceSizes(src, DefaultLimits); err != nil {
-		return nil, nil, err
+// loadSource loads the package in dir, a slash path relative to the
+// module root, from the files of src that it is made of. The files are
+// gathered first (gather), so cue/load's overlay holds nothing else, and
+// the vendored copy of the schema is checked current before any of it is
+// parsed.
+func loadSource(dir string, src *Source) (loaded, error) {
+	dir = path.Clean(filepath.ToSlash(dir))
+	// cue/load looks on the host for what the overlay lacks; under a
+	// path that does not exist it finds nothing.
+	if _, err := os.Lstat(virtualBase); !errors.Is(err, fs.ErrNotExist) {
+		return loaded{}, fmt.Errorf("%s exists on this machine; ampwright lays designs out there in memory and will not load one while it exists", virtualBase)
 	}
-	if err := checkVendoredInSource(src); err != nil {
-		return nil, nil, err
+	files, notUTF8, err := gather(src.FS(), dir, src.Label)
+	if err != nil {
+		return loaded{}, err
 	}
-	root := src.root()
-	labels.Store(root, src.Label)
-	overlay := make(map[string]load.Source, len(src.Files))
-	for name, b := range src.Files {
+	sub := &Source{Files: files, Label: src.Label}
+	if err := checkVendoredInSource(sub); err != nil {
+		return loaded{}, err
+	}
+	root := sub.root()
+	labels.Store(root, sub.Label)
+	if len(notUTF8) > 0 {
+		var errs errors.Error
+		for _, name := range notUTF8 {
+			errs = errors.Append(errs, invalidUTF8(root+"/"+name, files[name]))
+		}
+		return loaded{src: sub, root: root}, errs
+	}
+	overlay := make(map[string]load.Source, len(files))
+	for name, b := range files {
 		overlay[root+"/"+name] = load.FromBytes(b)
 	}
-	cfg := &load.Config{Dir: root, Overlay: overlay, Registry: refusingRegistry{}, ParseFile: hullParser(root + "/" + path.Clean(dir))}
-	insts := load.Instances([]string{"./" + strings.TrimPrefix(path.Clean(dir), "./")}, cfg)
-	return checkInstance(dir, insts, src.read)
+	refused := &refusals{}
+	cfg := &load.Config{Dir: root, Overlay: overlay, Registry: refusingRegistry{}, ParseFile: hullParser(root, root+"/"+dir, refused)}
+	insts := load.Instances([]string{"./" + strings.TrimPrefix(dir, "./")}, cfg)
+	if err := refused.err(); err != nil {
+		return loaded{src: sub, root: root}, err
+	}
+	inst, list, err := checkInstance(dir, insts)
+	return loaded{inst: inst, files: list, src: sub, root: root}, err
 }
 
-// loadInstance loads the CUE package in dir. The instance's own files,
-// and those of every package it imports, are returned sorted.
-func loadInstance(dir string) (*build.Instance, []string, error) {
+// loadDisk loads the CUE package in dir on disk: the files of its module
+// that it is made of are read through the guard into memory, and loaded
+// from there.
+func loadDisk(dir string) (loaded, error) {
 	abs, err := filepath.Abs(dir)
 	if err != nil {
-		return nil, nil, err
+		return loaded{}, err
 	}
 	fi, err := os.Stat(abs)
 	if err != nil {
-		return nil, nil, fmt.Errorf("design %s: %w", dir, unwrapPathError(err))
+		return loaded{}, fmt.Errorf("design %s: %w", dir, plainErr(err))
 	}
 	if !fi.IsDir() {
-		return nil, nil, fmt.Errorf("design %s: not a directory; give the directory of a hull's package", dir)
+		return loaded{}, fmt.Errorf("design %s: not a directory; give the directory of a hull's package", dir)
 	}
-	cfg := &load.Config{Dir: abs, Registry: refusingRegistry{}, ParseFile: hullParser(abs)}
-	arg := "."
-	sizeRoot := abs
-	if root := moduleRoot(abs); root != "" {
-		sizeRoot = root
+	root := moduleRoot(abs)
+	if root == "" {
+		root = abs
 	}
-	if err := checkSizes(sizeRoot, DefaultLimits); err != nil {
-		return nil, nil, err
+	rel, err := filepath.Rel(root, abs)
+	if err != nil {
+		return loaded{}, err
 	}
-	if err := checkVendoredOnDisk(sizeRoot); err != nil {
-		return nil, nil, err
+	g, err := openGuard(root, DefaultLimits)
+	if err != nil {
+		return loaded{}, err
 	}
-	if root := moduleRoot(abs); root != "" {
-		rel, err := filepath.Rel(root, abs)
-		if err != nil {
-			return nil, nil, err
-		}
-		cfg.Dir = root
-		arg = "./" + filepath.ToSlash(rel)
+	defer g.root.Close()
+	label := displayName(root)
+	if label == "." {
+		label = ""
+	} else {
+		label += "/"
 	}
-	insts := load.Instances([]string{arg}, cfg)
-	inst, files, err := checkInstance(dir, insts, os.ReadFile)
-	if err == nil {
-		err = checkInside(sizeRoot, files)
+	// The guard's files, gathered once more by loadSource from memory.
+	files, _, err := gather(g, filepath.ToSlash(rel), label)
+	if err != nil {
+		return loaded{}, err
 	}
-	return inst, files, err
+	l, err := loadSource(filepath.ToSlash(rel), &Source{Label: label, Files: files})
+	// The design's files are reported where they are on disk.
+	for i, f := range l.files {
+		l.files[i] = filepath.Join(root, filepath.FromSlash(strings.TrimPrefix(f, l.root+"/")))
+	}
+	l.root = root
+	return l, err
 }
 
-func checkInstance(dir string, insts []*build.Instance, read func(string) ([]byte, error)) (*build.Instance, []string, error) {
+func checkInstance(dir string, insts []*build.Instance) (*build.Instance, []string, error) {
 	if len(insts) != 1 {
 		return nil, nil, fmt.Errorf("design %s: expected one CUE package, found %d", dir, len(insts))
 	}
@@ -216,31 +277,6 @@ func checkVendoredSchema(dir string, files []string, read func(string) ([]byte, 
 	return nil
 }
 
-// vendoredChecked remembers the answer of checkVendoredSchema by module
-// root, so that a fleet reads the copy once.
-var vendoredChecked sync.Map
-
-// checkVendoredOnDisk is checkVendoredSchema for a module on disk.
-func checkVendoredOnDisk(root string) error {
-	if v, ok := vendoredChecked.Load(root); ok {
-		err, _ := v.(error)
-		return err
-	}
-	dir := filepath.Join(root, "cue.mod", "pkg", filepath.FromSlash(schema.ImportPath))
-	var files []string
-	if entries, err := os.ReadDir(dir); err == nil {
-		files = []string{}
-		for _, e := range entries {
-			if !e.IsDir() && strings.HasSuffix(e.Name(), ".cue") {
-				files = append(files, e.Name())
-			}
-		}
-	}
-	err := checkVendoredSchema(dir, files, func(base string) ([]byte, error) { return os.ReadFile(filepath.Join(dir, base)) })
-	vendoredChecked.Store(root, err)
-	return err
-}
-
 // checkVendoredInSource is checkVendoredSchema for a module in memory.
 func checkVendoredInSource(src *Source) error {
 	prefix := "cue.mod/pkg/" + schema.ImportPath + "/"
@@ -251,14 +287,7 @@ func checkVendoredInSource(src *Source) error {
 		}
 	}
 	sort.Strings(files)
-	return checkVendoredSchema(src.Label+prefix, files, func(base string) ([]byte, error) { return src.Files[prefix+base], nil })
-}
-
-func unwrapPathError(err error) error {
-	if pe, ok := err.(*os.PathError); ok {
-		return pe.Err
-	}
-	return err
+	return checkVendoredSchema(src.Label+vendoredDir, files, func(base string) ([]byte, error) { return src.Files[prefix+base], nil })
 }
 
 // instanceFiles lists the files of inst and of everything it imports.
@@ -312,10 +341,24 @@ func loadErrors(err error) ErrorList {
 	var l ErrorList
 	for _, e := range errors.Errors(err) {
 		pos, rel := designPos(append([]token.Pos{e.Position()}, e.InputPositions()...))
-		l = append(l, &Error{Pos: pos, Path: pathString(e.Path()), Msg: errors.StringWithConfig(e, &errors.Config{OmitPath: true}), Related: rel})
+		l = append(l, &Error{Pos: pos, Path: pathString(e.Path()), Msg: unvirtual(errors.StringWithConfig(e, &errors.Config{OmitPath: true})), Related: rel})
 	}
 	if len(l) == 0 {
-		l = append(l, &Error{Msg: err.Error()})
+		l = append(l, &Error{Msg: unvirtual(err.Error())})
 	}
 	return l
+}
+
+// unvirtual writes the overlay's paths in a message as messages show
+// files, by their labels: cue/load names directories in some messages.
+func unvirtual(msg string) string {
+	if !strings.Contains(msg, virtualBase) {
+		return msg
+	}
+	labels.Range(func(k, v any) bool {
+		msg = strings.ReplaceAll(msg, k.(string)+"/", v.(string))
+		msg = strings.ReplaceAll(msg, k.(string), strings.TrimSuffix(v.(string), "/"))
+		return true
+	})
+	return msg
 }

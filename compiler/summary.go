@@ -1,6 +1,7 @@
 package compiler
 
 import (
+	"fmt"
 	"math"
 
 	"github.com/ampwright/ampwright/checks"
@@ -15,18 +16,12 @@ func Compile(dir string) (*result.Result, *Design, error) {
 	return CompileFrom(dir, nil)
 }
 
-// CompileFrom is Compile reading from src (see LoadFrom), within
-// DefaultLimits.
-func CompileFrom(dir string, src *Source) (*result.Result, *Design, error) {
-	type both struct {
-		r *result.Result
-		d *Design
-	}
-	b, err := withTimeout(dir, DefaultLimits, func() (both, error) {
-		r, d, err := compile(dir, src)
-		return both{r, d}, err
-	})
-	return b.r, b.d, err
+// CompileFrom is Compile reading from src (see LoadFrom). It bounds what
+// it reads (DefaultLimits), not its time or memory: that is for the process
+// that runs it.
+func CompileFrom(dir string, src *Source) (r *result.Result, d *Design, err error) {
+	defer recovered(dir, &err)
+	return compile(dir, src)
 }
 
 func compile(dir string, src *Source) (*result.Result, *Design, error) {
@@ -51,6 +46,9 @@ func compile(dir string, src *Source) (*result.Result, *Design, error) {
 	}
 	r.BOM = billOfMaterials(d, sys)
 	r.System = systemTable(sys)
+	if err := finite(r); err != nil {
+		return nil, nil, err
+	}
 	return r, d, nil
 }
 
@@ -62,6 +60,36 @@ func (d *Design) modelErrors(issues []model.Issue) ErrorList {
 	}
 	errs.Sort()
 	return errs
+}
+
+// finite refuses a result with a number that is not finite: values within
+// the schema's limits can still multiply or divide past what a float64
+// holds, and no view (JSON least of all) could show the figure.
+func finite(r *result.Result) error {
+	p, bad := result.NonFinite(r)
+	if !bad {
+		return nil
+	}
+	e := &Error{Msg: fmt.Sprintf("the figure at %s is not a finite number: the design's values are too large or too small to compute with; check the values it is computed from", p)}
+	var i int
+	switch {
+	case scan(p, "checks[%d]", &i) && i < len(r.Checks):
+		f := r.Checks[i]
+		e.Msg = fmt.Sprintf("check %s of %s computes a number that is not finite: the design's values are too large or too small to compute with; check the values of %s", f.ID, f.Subject, f.Subject)
+		if f.Position != "" {
+			e.Msg += " at " + f.Position
+		}
+	case scan(p, "figures[%d]", &i) && i < len(r.Figures):
+		f := r.Figures[i]
+		e.Msg = fmt.Sprintf("figure %s of %s is not a finite number: the design's values are too large or too small to compute with; check the values of %s", f.ID, f.Subject, f.Subject)
+	}
+	return ErrorList{e}
+}
+
+// scan reads an index from the front of a result path.
+func scan(p, format string, i *int) bool {
+	_, err := fmt.Sscanf(p, format, i)
+	return err == nil
 }
 
 // Result returns the result skeleton of d: identity, rulebook and the

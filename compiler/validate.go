@@ -43,6 +43,10 @@ func (c *validator) walk(v cue.Value) {
 		c.quantity(v, a)
 		return
 	}
+	if k := v.IncompleteKind(); k != cue.BottomKind && k&^cue.NumberKind == 0 && v.IsConcrete() {
+		c.number(v)
+		return
+	}
 	if !c.clean {
 		if own := c.ownErrors(v); len(own) > 0 {
 			c.report(v, own)
@@ -97,6 +101,30 @@ func (c *validator) walk(v cue.Value) {
 			c.report(v, rest)
 		}
 	}
+}
+
+// Plain numbers are bounded in magnitude: CUE's numbers are exact and
+// unbounded, and the checks compute in float64, where a rulebook's
+// 1e400 or 1e-300 becomes an infinity or a division by almost nothing.
+// No value of a design or rulebook comes near these bounds.
+const maxMagnitude, minMagnitude = 1e12, 1e-12
+
+// number checks that a plain number is one ampwright can compute with.
+func (c *validator) number(v cue.Value) {
+	f, err := v.Float64()
+	a := math.Abs(f)
+	msg := ""
+	switch {
+	case err != nil && a == 0, err == nil && a != 0 && a < minMagnitude:
+		msg = fmt.Sprintf("%v is too small a number to compute with; give 0 or a number of at least %g", v, minMagnitude)
+	case err != nil, a > maxMagnitude:
+		msg = fmt.Sprintf("%v is too large a number to compute with; give a number of at most %g", v, maxMagnitude)
+	default:
+		return
+	}
+	p := pathString(selectorStrings(v.Path()))
+	c.quant[p] = true
+	c.errs = append(c.errs, &Error{Pos: c.dataPos(v.Path()), Path: p, Msg: msg})
 }
 
 // ownErrors returns the errors of v that are about v itself rather than
@@ -306,6 +334,21 @@ func writtenNonString(v cue.Value) (string, cue.Kind, bool) {
 	return "", 0, false
 }
 
+// isKind reports whether s names a CUE kind, as a type in a message.
+func isKind(s string) bool {
+	switch s {
+	case "int", "float", "number", "string", "bool", "bytes", "null", "struct", "list":
+		return true
+	}
+	return false
+}
+
+// isNumber reports whether s is a number as CUE prints one.
+func isNumber(s string) bool {
+	_, err := strconv.ParseFloat(s, 64)
+	return err == nil
+}
+
 func unquote(s string) string {
 	if u, err := strconv.Unquote(s); err == nil {
 		return u
@@ -325,7 +368,10 @@ func (c *validator) quantity(v cue.Value, a cue.Attribute) {
 	if c.clean {
 		// In a clean design the unified value is the design's own; looking
 		// it up in the design as written would evaluate that a second time.
-		if _, isDefault := v.Default(); isDefault {
+		// A default is the schema's only when the design does not write
+		// the field: a design's own default (*"1000 m" | "5 m") is the
+		// value used, and is checked like any other.
+		if _, isDefault := v.Default(); isDefault && !c.data.LookupPath(v.Path()).Exists() {
 			return // the schema's default
 		}
 		dv = v
@@ -358,6 +404,13 @@ func (c *validator) quantity(v cue.Value, a cue.Attribute) {
 	q, err := unit.ParseAs(s, dim)
 	if err != nil {
 		bad("%s", err)
+		return
+	}
+	// A quantity the schema leaves unbounded is bounded like a plain
+	// number, in SI units (a conductor of 1e-300 mm² would make a drop of
+	// 1e303 V).
+	if a := math.Abs(q.Value); a > maxMagnitude || (a != 0 && a < minMagnitude) {
+		bad("%q is too large or too small a %s to compute with", s, dim)
 		return
 	}
 	for i := 1; i < a.NumArgs(); i++ {
@@ -499,6 +552,14 @@ func (c *validator) reportGroup(path string, errs []errors.Error) {
 // alternatives. Where an alternative failed on a bound or a type, that
 // failure says most; where every alternative is a literal, list them.
 func (c *validator) disjunctionMessage(path string, alts []errors.Error) string {
+	// A value of the wrong kind against `*1 | int & >=1`: the
+	// alternative that names the kind says what is wrong, not the default.
+	for _, e := range alts {
+		format, args := e.Msg()
+		if strings.Contains(format, "mismatched types") && len(args) == 4 && (isKind(fmt.Sprint(args[0])) || isKind(fmt.Sprint(args[1]))) {
+			return c.message(path, e)
+		}
+	}
 	var literals []string
 	var given string
 	for _, e := range alts {
@@ -544,6 +605,9 @@ func (c *validator) message(path string, e errors.Error) string {
 			break
 		}
 		name := selName(sels[len(sels)-1])
+		if len(sels) == 2 && namedGroups[selName(sels[0])] && !isName(name) {
+			return fmt.Sprintf("%q is not a valid name; expected %s", name, namePhrase)
+		}
 		parent := c.root.LookupPath(cue.MakePath(sels[:len(sels)-1]...))
 		fields := fieldNames(parent, name)
 		if len(fields) == 0 {
@@ -555,25 +619,40 @@ func (c *validator) message(path string, e errors.Error) string {
 	case strings.HasPrefix(format, "reference %q not found") && len(args) == 1:
 		return fmt.Sprintf("reference %q not found; is an import missing?", fmt.Sprint(args[0]))
 	case strings.HasPrefix(format, "invalid value %v (out of bound %s)") && len(args) == 2:
-		if fmt.Sprint(args[1]) == `!=""` {
+		bound := fmt.Sprint(args[1])
+		switch {
+		case bound == `!=""`:
 			return "the value is empty; give one"
+		case strings.HasPrefix(bound, "=~") || strings.HasPrefix(bound, "!~"):
+			return fmt.Sprintf("%v is not allowed here; expected %s", args[0], patternPhrase(path))
 		}
-		return fmt.Sprintf("%v is out of range; expected a value %s", args[0], args[1])
+		return fmt.Sprintf("%v is out of range; %s", args[0], boundPhrase(bound, path))
 	case strings.HasPrefix(format, "conflicting values %s and %s (mismatched types %s and %s)") && len(args) == 4:
-		given, want := args[1], args[2]
-		if w, ok := c.written(path); ok && w == fmt.Sprint(args[0]) {
-			given, want = args[0], args[3]
+		a, b := fmt.Sprint(args[0]), fmt.Sprint(args[1])
+		if isNumber(a) && isNumber(b) {
+			// 50.1 and -91: CUE calls a float and an int different types.
+			return fmt.Sprintf("conflicting values %s and %s; a field can have only one value", a, b)
 		}
-		return fmt.Sprintf("%v is of the wrong type; expected %v", given, want)
+		given, want := b, fmt.Sprint(args[2])
+		if w, ok := c.written(path); ok && w == a {
+			given, want = a, fmt.Sprint(args[3])
+		}
+		if want == "int" && isNumber(given) {
+			return fmt.Sprintf("%s is not a whole number; expected a whole number", given)
+		}
+		return fmt.Sprintf("%s is of the wrong type; expected %s", given, kindPhrase(want))
 	case strings.HasPrefix(format, "conflicting values %s and %s") && len(args) >= 2:
 		return fmt.Sprintf("conflicting values %v and %v; a field can have only one value", args[0], args[1])
-	case strings.HasPrefix(format, "incomplete value %v"):
-		return fmt.Sprintf("no value given; expected %v", args[0])
-	case strings.HasPrefix(format, "non-concrete value %v"):
-		return fmt.Sprintf("no value given; expected %v", args[0])
+	case strings.HasPrefix(format, "incomplete value %v") && len(args) > 0:
+		return fmt.Sprintf("no value given; expected %s", expectation(fmt.Sprint(args[0]), path))
+	case strings.HasPrefix(format, "non-concrete value %v") && len(args) > 0:
+		return fmt.Sprintf("no value given; expected %s", expectation(fmt.Sprint(args[0]), path))
 	}
 	return fmt.Sprintf(format, args...)
 }
+
+// namedGroups are the fields of #Design whose keys are #Names.
+var namedGroups = map[string]bool{"scenarios": true, "loads": true, "inverters": true, "arrays": true, "controllers": true, "chargers": true, "buses": true, "wiring": true}
 
 // fieldNames lists the fields v allows, for suggestions, leaving out skip.
 func fieldNames(v cue.Value, skip string) []string {

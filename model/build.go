@@ -327,7 +327,7 @@ func (b *builder) attach() {
 	}
 	for _, r := range s.Runs {
 		if r.UpNode.Kind == KindLoad {
-			b.fail(r.Path, "the run is fed from load %q: a load ends its circuit; feed the run from a bus or a bank", r.Up)
+			b.fail(r.Path, "the run continues from load %q to %q: a load ends the wiring and feeds nothing; feed %q from a bus or a bank", r.Up, r.Down, r.Down)
 			continue
 		}
 		// A run that ends at a load must be that load's circuit.

@@ -143,7 +143,7 @@ func TestWiringIssues(t *testing.T) {
 		{"run fed from a load", func(d *schema.Design) {
 			d.Loads["lamp"] = load(t, "fridge-lamp", "1 A")
 			d.Wiring["fridge-lamp"] = run(t, "fridge", "lamp")
-		}, `wiring."fridge-lamp"`, "fed from load"},
+		}, `wiring."fridge-lamp"`, "continues from load"},
 		{"link wired on one side", func(d *schema.Design) {
 			delete(d.Wiring, "house-dcdc")
 		}, "links.dcdc", `not wired to bank "house"`},

@@ -20,7 +20,7 @@ func BOMText(w io.Writer, r *result.Result) error {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	row := func(cells ...string) {
 		if p.err == nil {
-			_, p.err = fmt.Fprintln(tw, strings.Join(cells, "\t"))
+			_, p.err = fmt.Fprintln(tw, strings.Join(inertCells(cells), "\t"))
 		}
 	}
 	row("category", "part", fmt.Sprintf("%8s", "quantity"), "unit", fmt.Sprintf("%10s", "unit price"), fmt.Sprintf("%10s", "total"), "description")
@@ -56,7 +56,7 @@ func BOMCSV(w io.Writer, r *result.Result) error {
 		if l.Length > 0 {
 			length = strconv.FormatFloat(l.Length, 'f', -1, 64)
 		}
-		_ = cw.Write([]string{l.Category, l.Part, l.Description, strconv.FormatFloat(l.Quantity, 'f', -1, 64), l.Unit, length, plain(l.UnitPrice), plain(l.Total), b.Currency, l.For})
+		_ = cw.Write([]string{csvText(l.Category), csvText(l.Part), csvText(l.Description), strconv.FormatFloat(l.Quantity, 'f', -1, 64), csvText(l.Unit), length, plain(l.UnitPrice), plain(l.Total), csvText(b.Currency), csvText(l.For)})
 	}
 	cw.Flush()
 	return cw.Error()

@@ -655,17 +655,17 @@ func countsLine(c result.DeltaCounts) string {
 		c.Hulls, c.Changed, c.Unchanged, c.Added, c.Removed, c.Broken, c.Regressions, c.Fixes, c.Margins)
 }
 
-// md escapes text for Markdown: the punctuation that Markdown or a table
-// could read as markup is backslash-escaped (emphasis, code, links,
-// headings, images, strike-through, table cells), angle brackets and
-// ampersands become entities so no HTML passes, line breaks become spaces,
-// and an @ is followed by a zero-width space so that no mention is made.
+// md escapes text for Markdown: it is made inert first (Inert: control
+// characters, line breaks and bidirectional controls written as escapes),
+// then the punctuation that Markdown or a table could read as markup is
+// backslash-escaped (emphasis, code, links, headings, images,
+// strike-through, table cells), angle brackets and ampersands become
+// entities so no HTML passes, and an @ is followed by a zero-width space,
+// written as an entity (&#8203;), so that no mention is made.
 func md(s string) string {
 	var b strings.Builder
-	for _, r := range s {
+	for _, r := range Inert(s) {
 		switch r {
-		case '\n', '\r', '\t':
-			b.WriteByte(' ')
 		case '<':
 			b.WriteString("&lt;")
 		case '>':
@@ -673,7 +673,7 @@ func md(s string) string {
 		case '&':
 			b.WriteString("&amp;")
 		case '@':
-			b.WriteString("@\u200b")
+			b.WriteString("@&#8203;")
 		case '\\', '`', '*', '_', '[', ']', '#', '!', '|', '~':
 			b.WriteByte('\\')
 			b.WriteRune(r)

@@ -18,11 +18,11 @@ func FleetText(w io.Writer, f *result.Fleet) error {
 	fmt.Fprintln(tw, "hull\tvessel\tverdict\tfail\twarn\tcost\tbank\tarray\tworst drop\tlowest SoC\tchecks")
 	for _, l := range f.Hulls {
 		if l.Broken() {
-			fmt.Fprintf(tw, "%s%s\t-\tERROR\t-\t-\t-\t-\t-\t-\t-\t-\n", l.Path, changedMark(l))
+			fmt.Fprintf(tw, "%s%s\t-\tERROR\t-\t-\t-\t-\t-\t-\t-\t-\n", Inert(l.Path), changedMark(l))
 			continue
 		}
-		fmt.Fprintf(tw, "%s%s\t%s\t%s\t%d\t%d\t%s\t%s\t%.0f W\t%s\t%s\t%s\n", l.Path, changedMark(l), strings.TrimSpace(l.Name+" "+l.Hull), strings.ToUpper(string(l.Verdict)),
-			l.Fail, l.Warn, fleetCost(l), l.Bank, l.Array, dropText(l), socText(l), orDash(checksText(l)))
+		fmt.Fprintf(tw, "%s%s\t%s\t%s\t%d\t%d\t%s\t%s\t%.0f W\t%s\t%s\t%s\n", inertArgs([]any{l.Path, changedMark(l), strings.TrimSpace(l.Name + " " + l.Hull), strings.ToUpper(string(l.Verdict)),
+			l.Fail, l.Warn, fleetCost(l), l.Bank, l.Array, dropText(l), socText(l), orDash(checksText(l))})...)
 	}
 	if err := tw.Flush(); err != nil {
 		return err

@@ -21,6 +21,30 @@ type PackOptions struct {
 	// undated; it is never the clock's time, so the same inputs give the
 	// same bytes.
 	Date time.Time
+	// MaxPages bounds the pack's pages, and Deadline the time it may take
+	// to draw (0 and zero for none): Pack stops at the first bound passed
+	// and returns a *PackBoundError, writing nothing.
+	MaxPages int
+	Deadline time.Time
+}
+
+// PackBoundError is a pack that passed a bound of PackOptions while it
+// was drawn.
+type PackBoundError struct {
+	Pages   int    // the page bound passed, or 0
+	Time    bool   // the deadline passed
+	Section string // the section being drawn
+}
+
+func (e *PackBoundError) Error() string {
+	at := ""
+	if e.Section != "" {
+		at = fmt.Sprintf(" while drawing %q", e.Section)
+	}
+	if e.Time {
+		return "pack: drawing took longer than its time bound" + at + "; no pack written"
+	}
+	return fmt.Sprintf("pack: the pack passed its bound of %d pages%s; no pack written", e.Pages, at)
 }
 
 // PackEpoch is the PDF date of a pack with no date and no commit time:
@@ -51,7 +75,12 @@ func Pack(w io.Writer, r *result.Result, opts PackOptions) error {
 		return err
 	}
 	p := &pack{d: d, r: r, date: date.UTC(), dated: dated, sources: map[string]int{}}
+	d.maxPages, d.deadline = opts.MaxPages, opts.Deadline
+	d.where = func() string { return p.section }
 	p.build()
+	if d.stopped != nil {
+		return d.stopped
+	}
 	b, err := d.bytes()
 	if err != nil {
 		return fmt.Errorf("pack: %w", err)
@@ -74,6 +103,10 @@ type pack struct {
 	sourceList []string
 	// lastPos is the last design position shown on the sheets.
 	lastPos string
+	// The lookups of index.
+	figAt   map[idSubject]int
+	figByID map[string][]int
+	findAt  map[idSubject][]int
 }
 
 type tocEntry struct {
@@ -86,16 +119,13 @@ func (p *pack) build() {
 	d.setInfo("Calculation pack: "+name+" "+r.Design.Hull, "DC electrical and solar-charging design", r.Design.Designer)
 	d.header = p.header
 	d.footer = p.footer
-	p.cover()
-	p.findings()
-	p.energy()
-	p.solar()
-	p.voyage()
-	p.wiring()
-	p.diagram()
-	p.calcSheets()
-	p.bom()
-	p.cautions()
+	// Once a bound stops the drawing (doc.stop), the sections left are
+	// not drawn at all.
+	for _, section := range []func(){p.cover, p.findings, p.energy, p.solar, p.voyage, p.wiring, p.diagram, p.calcSheets, p.bom, p.cautions} {
+		if d.stopped == nil {
+			section()
+		}
+	}
 }
 
 // start begins a section on a new page and lists it in the contents.
@@ -583,31 +613,51 @@ func (p *pack) lengthIn(m float64) string {
 
 // figures returns the figures with the given ID.
 func (p *pack) figures(id result.FigureID) []result.Figure {
+	p.index()
 	var out []result.Figure
-	for _, f := range p.r.Figures {
-		if f.ID == id {
-			out = append(out, f)
-		}
+	for _, i := range p.figByID[string(id)] {
+		out = append(out, p.r.Figures[i])
 	}
 	return out
 }
 
 // figure returns the figure with the given ID and subject.
 func (p *pack) figure(id result.FigureID, subject string) (result.Figure, bool) {
-	for _, f := range p.r.Figures {
-		if f.ID == id && f.Subject == subject {
-			return f, true
-		}
+	p.index()
+	if i, ok := p.figAt[idSubject{string(id), subject}]; ok {
+		return p.r.Figures[i], true
 	}
 	return result.Figure{}, false
 }
 
 // finding returns the finding with the given ID and subject.
 func (p *pack) finding(id result.CheckID, subject string) (result.Finding, bool) {
-	for _, f := range p.r.Checks {
-		if f.ID == id && f.Subject == subject {
-			return f, true
-		}
+	p.index()
+	if is := p.findAt[idSubject{string(id), subject}]; len(is) > 0 {
+		return p.r.Checks[is[0]], true
 	}
 	return result.Finding{}, false
+}
+
+// idSubject keys a figure or finding.
+type idSubject struct{ id, subject string }
+
+// index builds the lookups of figures and findings once: a design of
+// thousands of runs looks them up thousands of times.
+func (p *pack) index() {
+	if p.figAt != nil {
+		return
+	}
+	p.figAt, p.figByID, p.findAt = map[idSubject]int{}, map[string][]int{}, map[idSubject][]int{}
+	for i, f := range p.r.Figures {
+		k := idSubject{string(f.ID), f.Subject}
+		if _, ok := p.figAt[k]; !ok {
+			p.figAt[k] = i
+		}
+		p.figByID[string(f.ID)] = append(p.figByID[string(f.ID)], i)
+	}
+	for i, f := range p.r.Checks {
+		k := idSubject{string(f.ID), f.Subject}
+		p.findAt[k] = append(p.findAt[k], i)
+	}
 }

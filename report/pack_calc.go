@@ -85,6 +85,7 @@ func (p *pack) calcItems() ([]calcGroup, [][]calcItem) {
 	}
 	used := make([]bool, len(r.Checks))
 	items := make([][]calcItem, len(groups))
+	p.index()
 	for gi, g := range groups {
 		var list []calcItem
 		for i := range r.Figures {
@@ -93,9 +94,9 @@ func (p *pack) calcItems() ([]calcGroup, [][]calcItem) {
 				continue
 			}
 			it := calcItem{id: string(f.ID), subject: f.Subject, fig: f}
-			for j, c := range r.Checks {
-				if !used[j] && string(c.ID) == string(f.ID) && c.Subject == f.Subject {
-					it.finds = append(it.finds, c)
+			for _, j := range p.findAt[idSubject{string(f.ID), f.Subject}] {
+				if !used[j] {
+					it.finds = append(it.finds, r.Checks[j])
 					used[j] = true
 				}
 			}
@@ -180,6 +181,9 @@ func (p *pack) calcSheets() {
 		p.sub(fmt.Sprintf("%s — %s, %s", g.title, plural(nf, "figure"), plural(nc, "finding")), min(first, 60))
 		prev := ""
 		for _, it := range list {
+			if d.stopped != nil {
+				return
+			}
 			if g.bySubject && it.subject != prev {
 				p.calcCaption(it.subject, p.calcBlock(it, true))
 				prev = it.subject

@@ -14,7 +14,6 @@ import (
 	"fmt"
 	"strings"
 	"time"
-	"unicode"
 
 	"github.com/go-pdf/fpdf"
 	"golang.org/x/image/font/gofont/gobold"
@@ -77,6 +76,21 @@ type doc struct {
 	glyphBuf   sfnt.Buffer
 	haveGlyph  map[rune]bool
 	inDecorate bool
+	// maxPages and deadline bound the drawing (0 and zero for none); the
+	// first bound passed is kept in stopped, and fpdf draws nothing more.
+	maxPages int
+	deadline time.Time
+	stopped  error
+	where    func() string // names the part being drawn, for stopped
+}
+
+// stop halts the drawing with err: fpdf ignores every call after an error,
+// so the sections run on cheaply to their ends and Pack returns err.
+func (d *doc) stop(err error) {
+	if d.stopped == nil {
+		d.stopped = err
+		d.f.SetError(err)
+	}
 }
 
 // newDoc starts a document on paper "A4" or "Letter", dated date.
@@ -142,6 +156,23 @@ func (d *doc) setInfo(title, subject, author string) {
 // the top of its content area.
 func (d *doc) addPage(landscape bool) {
 	d.landscape = landscape
+	where := ""
+	if d.where != nil {
+		where = d.where()
+	}
+	switch {
+	case d.stopped != nil:
+		d.y = d.top
+		return
+	case d.maxPages > 0 && d.page() >= d.maxPages:
+		d.stop(&PackBoundError{Pages: d.maxPages, Section: where})
+	case !d.deadline.IsZero() && time.Now().After(d.deadline):
+		d.stop(&PackBoundError{Time: true, Section: where})
+	}
+	if d.stopped != nil {
+		d.y = d.top
+		return
+	}
 	o := "P"
 	if landscape {
 		o = "L"
@@ -209,13 +240,22 @@ func (d *doc) textColor(c rgb) { d.f.SetTextColor(c.r, c.g, c.b) }
 func (d *doc) drawColor(c rgb) { d.f.SetDrawColor(c.r, c.g, c.b) }
 func (d *doc) fillColor(c rgb) { d.f.SetFillColor(c.r, c.g, c.b) }
 
-// clean makes design text safe to draw: control characters become spaces
-// and runes the embedded fonts have no glyph for become "?", so that
-// nothing draws as an empty box or moves the text.
+// clean makes text safe to draw: it is made inert (Inert: control
+// characters, line breaks and bidirectional controls written as escapes),
+// runes the embedded fonts have no glyph for become "?", so that nothing
+// draws as an empty box or moves the text, and text longer than maxDrawn
+// runes is cut short with a mark: measuring and wrapping a line costs
+// time in its length, and no field of a pack needs more.
 func (d *doc) clean(s string) string {
+	s = Inert(s)
+	if len(s) > maxDrawn {
+		if r := []rune(s); len(r) > maxDrawn {
+			s = string(r[:maxDrawn]) + " … (cut)"
+		}
+	}
 	ok := true
 	for _, r := range s {
-		if r < 0x20 || r == 0x7f || (r >= 0x80 && !d.hasGlyph(r)) {
+		if r >= 0x80 && !d.hasGlyph(r) {
 			ok = false
 			break
 		}
@@ -225,19 +265,17 @@ func (d *doc) clean(s string) string {
 	}
 	var b strings.Builder
 	for _, r := range s {
-		switch {
-		case r == '\n':
-			b.WriteRune('\n')
-		case unicode.IsControl(r):
-			b.WriteRune(' ')
-		case r >= 0x80 && !d.hasGlyph(r):
+		if r >= 0x80 && !d.hasGlyph(r) {
 			b.WriteRune('?')
-		default:
+		} else {
 			b.WriteRune(r)
 		}
 	}
 	return b.String()
 }
+
+// maxDrawn is the longest text clean lets through, in runes.
+const maxDrawn = 2000
 
 func (d *doc) hasGlyph(r rune) bool {
 	ok, seen := d.haveGlyph[r]
@@ -254,7 +292,7 @@ func (d *doc) textW(s string) float64 { return d.f.GetStringWidth(d.clean(s)) }
 
 // text draws s with its baseline at y.
 func (d *doc) text(x, y float64, s string) {
-	d.f.Text(x, y, d.clean(strings.ReplaceAll(s, "\n", " ")))
+	d.f.Text(x, y, d.clean(s))
 }
 
 // textIn draws s on one line within the box x, y, w, h, aligned "L", "C"
@@ -267,7 +305,7 @@ func (d *doc) textIn(x, y, w, h float64, s, align string) {
 
 // fit truncates s with an ellipsis to at most w wide.
 func (d *doc) fit(s string, w float64) string {
-	s = d.clean(strings.ReplaceAll(s, "\n", " "))
+	s = d.clean(s)
 	if d.f.GetStringWidth(s) <= w {
 		return s
 	}

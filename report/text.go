@@ -16,8 +16,13 @@ import (
 )
 
 // JSON writes v as indented JSON with a final newline. Map keys are
-// sorted by encoding/json, so the same result gives the same bytes.
+// sorted by encoding/json, so the same result gives the same bytes. A
+// number that is not finite, which JSON cannot hold, is refused before a
+// byte is written (the compiler refuses such a design first).
 func JSON(w io.Writer, v any) error {
+	if p, bad := result.NonFinite(v); bad {
+		return fmt.Errorf("the value at %s is not a finite number, which JSON cannot hold; no JSON written", p)
+	}
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	enc.SetEscapeHTML(false)
@@ -302,9 +307,11 @@ type printer struct {
 	err error
 }
 
+// line prints one line, its string arguments made inert: a design's text
+// never reaches the output as it was written.
 func (p *printer) line(format string, args ...any) {
 	if p.err == nil {
-		_, p.err = fmt.Fprintf(p.w, format+"\n", args...)
+		_, p.err = fmt.Fprintf(p.w, format+"\n", inertArgs(args)...)
 	}
 }
 
@@ -326,8 +333,18 @@ func (p *printer) table(headers ...string) *table {
 
 func (t *table) row(cells ...string) {
 	if t.p.err == nil {
-		_, t.p.err = fmt.Fprintln(t.tw, "  "+strings.Join(cells, "\t"))
+		_, t.p.err = fmt.Fprintln(t.tw, "  "+strings.Join(inertCells(cells), "\t"))
 	}
+}
+
+// inertCells makes a table's cells inert, so that no tab or line break in
+// a design's text can shift a column or forge a row.
+func inertCells(cells []string) []string {
+	out := make([]string, len(cells))
+	for i, c := range cells {
+		out[i] = Inert(c)
+	}
+	return out
 }
 
 func (t *table) flush() {

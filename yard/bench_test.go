@@ -22,7 +22,7 @@ func BenchmarkDiffYard(b *testing.B) {
 		if err != nil {
 			b.Fatal(err)
 		}
-		if _, err := DiffYard(Side{Name: "HEAD", Rev: rev}, Side{Name: "work tree", Dir: yard}); err != nil {
+		if _, err := DiffYard(Side{Name: "HEAD", Rev: rev}, Side{Name: "work tree", Dir: yard}, Options{}); err != nil {
 			b.Fatal(err)
 		}
 	}

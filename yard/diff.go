@@ -1,9 +1,6 @@
 package yard
 
 import (
-	"errors"
-	"path/filepath"
-
 	"github.com/ampwright/ampwright/compiler"
 	"github.com/ampwright/ampwright/result"
 	"github.com/ampwright/ampwright/schema"
@@ -27,17 +24,23 @@ func (s Side) hulls() ([]string, error) {
 	return Hulls(s.Dir, nil)
 }
 
-func (s Side) compile(hull string) (*result.Result, *compiler.Design, error) {
+// compile compiles a hull of the side; with facts, a hull on disk asks git
+// what it was read from (a fleet's line and a diff do not show it, and git
+// runs only where its answer is shown).
+func (s Side) compile(hull string, facts bool) (*result.Result, *compiler.Design, error) {
 	var r *result.Result
 	var d *compiler.Design
 	var err error
-	if s.Rev != nil {
+	switch {
+	case s.Rev != nil:
 		r, d, err = compiler.CompileFrom(hull, s.Rev.Source)
 		if err == nil {
 			attach(r, Facts{Revision: s.Rev.Commit, Time: s.Rev.Time})
 		}
-	} else {
-		r, d, err = Compile(filepath.Join(s.Dir, filepath.FromSlash(hull)))
+	case facts:
+		r, d, err = Compile(hullDir(s.Dir, hull))
+	default:
+		r, d, err = compiler.Compile(hullDir(s.Dir, hull))
 	}
 	if r != nil {
 		r.Design.Path = hull
@@ -45,11 +48,11 @@ func (s Side) compile(hull string) (*result.Result, *compiler.Design, error) {
 	return r, d, err
 }
 
-// DiffYard compares every hull of a yard between two sides. A hull whose
-// inputs are the same on both sides (its own files and everything it
-// imports, catalog and rulebook included, found by quickHasher) is listed
-// as unchanged without being compiled.
-func DiffYard(base, head Side) (*result.YardDelta, error) {
+// DiffYard compares every hull of a yard between two sides, compiling as
+// opts says. A hull whose inputs are the same on both sides (its own files
+// and everything it imports, catalog and rulebook included, found by
+// quickHasher) is listed as unchanged without being compiled.
+func DiffYard(base, head Side, opts Options) (*result.YardDelta, error) {
 	bh, err := base.hulls()
 	if err != nil {
 		return nil, err
@@ -71,25 +74,44 @@ func DiffYard(base, head Side) (*result.YardDelta, error) {
 	}
 	yd := &result.YardDelta{Base: base.Name, Head: head.Name, Hulls: []result.HullDelta{}}
 	bq, hq := newQuickHasher(base), newQuickHasher(head)
-	taken := map[string][]result.SharedChange{}
-	for _, hull := range schema.Names(at) {
+	// The quick hashes first, in this goroutine: the hashers cache
+	// directories and are not safe for concurrent use.
+	names := schema.Names(at)
+	same := make([]bool, len(names))
+	for i, hull := range names {
+		if sides := at[hull]; sides[0] && sides[1] {
+			bHash, bErr := bq.Hash(hull)
+			hHash, hErr := hq.Hash(hull)
+			same[i] = bErr == nil && hErr == nil && bHash == hHash
+		}
+	}
+	run := opts.run()
+	deltas := make([]result.HullDelta, len(names))
+	taken := make([][]result.SharedChange, len(names))
+	each(len(names), opts, func(i int) {
+		hull := names[i]
 		sides := at[hull]
-		var hd result.HullDelta
 		switch {
 		case !sides[1]:
-			hd = result.HullDelta{Path: hull, State: result.HullRemoved}
-			if r, _, err := base.compile(hull); err == nil {
-				hd.Name, hd.Hull = r.Design.Name, r.Design.Hull
+			deltas[i] = result.HullDelta{Path: hull, State: result.HullRemoved}
+			if c := run(base, hull, WantResult); c.OK() {
+				deltas[i].Name, deltas[i].Hull = c.Result.Design.Name, c.Result.Design.Hull
 			}
 		case !sides[0]:
-			hd = headOnly(head, hull)
+			deltas[i] = headOnly(run(head, hull, WantResult), hull)
+		case same[i]:
+			deltas[i] = result.HullDelta{Path: hull, State: result.HullUnchanged}
 		default:
-			hd, taken[hull] = diffHull(base, head, hull, bq, hq)
+			deltas[i], taken[i] = diffHull(run(base, hull, WantInputs), run(head, hull, WantInputs), hull)
 		}
-		yd.Hulls = append(yd.Hulls, hd)
-	}
+	})
+	yd.Hulls = deltas
 	yd.Counts = countDelta(yd.Hulls)
-	if shared := result.CollectShared(yd.Hulls, taken); len(shared) > 0 {
+	byHull := map[string][]result.SharedChange{}
+	for i, t := range taken {
+		byHull[names[i]] = t
+	}
+	if shared := result.CollectShared(yd.Hulls, byHull); len(shared) > 0 {
 		yd.Shared = shared
 	}
 	return yd, nil
@@ -97,11 +119,11 @@ func DiffYard(base, head Side) (*result.YardDelta, error) {
 
 // headOnly is a hull added at the head: every finding that does not pass
 // counts against it.
-func headOnly(head Side, hull string) result.HullDelta {
-	r, _, err := head.compile(hull)
-	if err != nil {
-		return broken(hull, err)
+func headOnly(h Compiled, hull string) result.HullDelta {
+	if !h.OK() {
+		return broken(hull, h.Problems)
 	}
+	r := h.Result
 	empty := &result.Result{Design: r.Design, BOM: &result.BOM{Complete: true}}
 	hd := result.Compare(empty, r)
 	hd.Path, hd.State, hd.Figures = hull, result.HullAdded, nil
@@ -110,46 +132,24 @@ func headOnly(head Side, hull string) result.HullDelta {
 
 // diffHull compares one hull present on both sides, and returns with its
 // delta the shared changes (catalog parts, rulebook tables) it takes.
-func diffHull(base, head Side, hull string, bq, hq *quickHasher) (result.HullDelta, []result.SharedChange) {
-	bHash, bErr := bq.Hash(hull)
-	hHash, hErr := hq.Hash(hull)
-	if bErr == nil && hErr == nil && bHash == hHash {
-		return result.HullDelta{Path: hull, State: result.HullUnchanged}, nil
+func diffHull(b, h Compiled, hull string) (result.HullDelta, []result.SharedChange) {
+	if !h.OK() {
+		return broken(hull, h.Problems), nil
 	}
-	// The two sides compile at once, one a core, each listing its inputs.
-	type side struct {
-		r   *result.Result
-		c   compiled
-		err error
-	}
-	run := func(s Side) side {
-		r, d, err := s.compile(hull)
-		if err != nil {
-			return side{err: err}
-		}
-		return side{r: r, c: compiled{d: d, inputs: d.Inputs()}}
-	}
-	bc := make(chan side, 1)
-	go func() { bc <- run(base) }()
-	h := run(head)
-	b := <-bc
-	if h.err != nil {
-		return broken(hull, h.err), nil
-	}
-	br := b.r
-	if b.err != nil {
+	br := b.Result
+	if !b.OK() {
 		// A base that did not compile: compare with an empty design, so
 		// that every finding of the head shows.
-		br = &result.Result{Design: h.r.Design, BOM: &result.BOM{Complete: true}}
+		br = &result.Result{Design: h.Result.Design, BOM: &result.BOM{Complete: true}}
 	}
-	delta := result.Compare(br, h.r)
+	delta := result.Compare(br, h.Result)
 	delta.Path = hull
 	var shared []result.SharedChange
-	if b.err == nil {
-		delta.Inputs = result.CompareInputs(b.c.inputs, h.c.inputs)
-		delta.Entries, shared = splitInputs(delta.Inputs, b.c, h.c)
-		if rv := h.c.d.Rules.Review; rv != nil {
-			delta.Margins = result.ShrunkMargins(br, h.r, rv.Shrink, rv.Near)
+	if b.OK() {
+		delta.Inputs = result.CompareInputs(b.Inputs, h.Inputs)
+		delta.Entries, shared = splitInputs(delta.Inputs, compiledOf(b), compiledOf(h))
+		if rv := h.Review; rv != nil {
+			delta.Margins = result.ShrunkMargins(br, h.Result, rv.Shrink, rv.Near)
 		}
 	}
 	if !delta.HasChanges() {
@@ -158,15 +158,8 @@ func diffHull(base, head Side, hull string, bq, hq *quickHasher) (result.HullDel
 	return delta, shared
 }
 
-func broken(hull string, err error) result.HullDelta {
-	hd := result.HullDelta{Path: hull, State: result.HullBroken}
-	var list compiler.ErrorList
-	if errors.As(err, &list) {
-		hd.Problems = list.Problems()
-	} else {
-		hd.Problems = []result.Problem{{Message: err.Error()}}
-	}
-	return hd
+func broken(hull string, problems []result.Problem) result.HullDelta {
+	return result.HullDelta{Path: hull, State: result.HullBroken, Problems: problems}
 }
 
 func countDelta(hs []result.HullDelta) result.DeltaCounts {

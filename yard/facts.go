@@ -7,9 +7,7 @@ import (
 	"encoding/hex"
 	"fmt"
 	"hash"
-	"os"
 	"path/filepath"
-	"strconv"
 	"strings"
 	"sync"
 )
@@ -43,9 +41,7 @@ func headOf(dir string) *head {
 		lines := strings.Fields(string(out))
 		if len(lines) == 3 {
 			h = &head{top: lines[0], format: lines[1], commit: lines[2]}
-			if t, err := git(dir, nil, "log", "-1", "--format=%ct", h.commit); err == nil {
-				h.time, _ = strconv.ParseInt(strings.TrimSpace(string(t)), 10, 64)
-			}
+			h.time = commitTime(dir, h.commit)
 		}
 	}
 	heads.Store(dir, h)
@@ -53,13 +49,14 @@ func headOf(dir string) *head {
 }
 
 // FactsOf asks git about the design whose input files (absolute paths) are
-// files, in the module at root. Only those files count towards Dirty: an
+// files, in the module at root, read by read (the contents the design was
+// loaded from). Only those files count towards Dirty: an
 // edit to another hull, or an untracked file elsewhere, does not. git is
 // asked for the commit's entries of those files alone, and the files are
 // hashed here as git would hash them, so that git runs no filter, hook or
 // monitor of the repository's. Outside a work tree, or without git, the
 // facts are empty.
-func FactsOf(root string, files []string) Facts {
+func FactsOf(root string, files []string, read func(string) ([]byte, error)) Facts {
 	h := headOf(root)
 	if h == nil {
 		return Facts{}
@@ -102,7 +99,7 @@ func FactsOf(root string, files []string) Facts {
 			f.Dirty = true
 			return f
 		}
-		b, err := os.ReadFile(files[i])
+		b, err := read(files[i])
 		if err != nil || blobID(h.format, b) != want {
 			f.Dirty = true
 			return f

@@ -53,25 +53,26 @@ func TestFactsDirtyOnlyForInputs(t *testing.T) {
 	inputs := func(hull string) []string {
 		return []string{filepath.Join(dir, "catalog/c.cue"), filepath.Join(dir, "hulls", hull, hull+".cue")}
 	}
-	if f := FactsOf(dir, inputs("a")); f.Revision == "" || f.Dirty || f.Time == 0 {
+	if f := FactsOf(dir, inputs("a"), os.ReadFile); f.Revision == "" || f.Dirty || f.Time == 0 {
 		t.Fatalf("clean tree: got %+v, want a revision, a time and not dirty", f)
 	}
 	write(t, dir, "hulls/b/b.cue", "package b\nx: 1\n")
 	write(t, dir, "notes.txt", "untracked\n")
-	if f := FactsOf(dir, inputs("a")); f.Dirty {
+	if f := FactsOf(dir, inputs("a"), os.ReadFile); f.Dirty {
 		t.Error("an edit to hull b and an untracked file made hull a dirty")
 	}
-	if f := FactsOf(dir, inputs("b")); !f.Dirty {
+	if f := FactsOf(dir, inputs("b"), os.ReadFile); !f.Dirty {
 		t.Error("an edit to hull b's own file left it clean")
 	}
 	write(t, dir, "catalog/c.cue", "package catalog\ny: 2\n")
-	if f := FactsOf(dir, inputs("a")); !f.Dirty {
+	if f := FactsOf(dir, inputs("a"), os.ReadFile); !f.Dirty {
 		t.Error("an edit to the catalog hull a imports left it clean")
 	}
 }
 
-// TestGitIgnoresRepositoryCommands: a repository's configured fsmonitor
-// command is never run when ampwright asks git about it.
+// TestGitIgnoresRepositoryCommands: a repository's configured fsmonitor,
+// pager or signature program is never run when ampwright asks git about
+// it.
 func TestGitIgnoresRepositoryCommands(t *testing.T) {
 	dir := gitRepo(t, map[string]string{"cue.mod/module.cue": "module: \"x.example/y\"\n", "hulls/a/a.cue": "package a\nvessel: {}\n"})
 	marker := filepath.Join(t.TempDir(), "ran")
@@ -79,12 +80,14 @@ func TestGitIgnoresRepositoryCommands(t *testing.T) {
 	if err := os.WriteFile(script, []byte("#!/bin/sh\ntouch "+marker+"\n"), 0o755); err != nil {
 		t.Fatal(err)
 	}
-	cfg := exec.Command("git", "-C", dir, "config", "core.fsmonitor", script)
-	if out, err := cfg.CombinedOutput(); err != nil {
-		t.Fatalf("%v: %s", err, out)
+	for _, kv := range [][2]string{{"core.fsmonitor", script}, {"core.pager", script}, {"log.showSignature", "true"}, {"gpg.program", script}} {
+		cfg := exec.Command("git", "-C", dir, "config", kv[0], kv[1])
+		if out, err := cfg.CombinedOutput(); err != nil {
+			t.Fatalf("%v: %s", err, out)
+		}
 	}
 	heads.Delete(dir)
-	FactsOf(dir, []string{filepath.Join(dir, "hulls/a/a.cue")})
+	FactsOf(dir, []string{filepath.Join(dir, "hulls/a/a.cue")}, os.ReadFile)
 	if _, err := ReadRevision(dir, "HEAD"); err != nil {
 		t.Fatal(err)
 	}

@@ -3,8 +3,6 @@ package yard
 import (
 	"crypto/sha256"
 	"encoding/binary"
-	"path/filepath"
-	"runtime"
 	"sync"
 
 	"github.com/ampwright/ampwright/result"
@@ -23,64 +21,70 @@ func InShard(hull string, k, n int) bool {
 	return binary.BigEndian.Uint64(sum[:8])%uint64(n) == uint64(k-1)
 }
 
-// FleetOptions are what Fleet does besides compiling.
-type FleetOptions struct {
-	// Progress, if not nil, is called after each hull with the number
-	// done.
-	Progress func(done, total int)
-	// Keep, if not nil, picks the hulls whose whole results Fleet returns
-	// besides their lines, so that a caller can render them (the packs of
-	// the changed hulls) without compiling them again.
-	Keep func(hull string) bool
-}
-
-// Fleet compiles the hulls (slash paths relative to root) concurrently,
-// as many at once as there are cores, and returns one line per hull in the
-// order given, and the results of the hulls opts.Keep picks, by hull. A
-// hull that does not compile gets a line with its errors and does not stop
-// the others.
-func Fleet(root string, hulls []string, opts FleetOptions) ([]result.FleetLine, map[string]*result.Result) {
+// Fleet compiles the hulls (slash paths relative to root) as opts says,
+// by default one a core in this process, and returns one line per hull in
+// the order given, and the whole results of the hulls opts.Keep picks, by
+// hull, so that a caller can render them (the packs of the changed hulls)
+// without compiling them again. A hull that does not compile, or that
+// passes a bound of the runner, gets a line with its problems and does not
+// stop the others.
+func Fleet(root string, hulls []string, opts Options) ([]result.FleetLine, map[string]*result.Result) {
 	out := make([]result.FleetLine, len(hulls))
 	kept := map[string]*result.Result{}
-	workers := runtime.GOMAXPROCS(0)
+	var mu sync.Mutex
+	run := opts.run()
+	each(len(hulls), opts, func(i int) {
+		want := WantLine
+		keep := opts.Keep != nil && opts.Keep(hulls[i])
+		if keep {
+			want = WantResult
+		}
+		c := run(Side{Dir: root}, hulls[i], want)
+		switch {
+		case !c.OK():
+			out[i] = result.FleetLine{Path: hulls[i], Problems: c.Problems, LowestSoC: -1}
+		case c.Line != nil:
+			out[i] = *c.Line
+			out[i].Path = hulls[i]
+		default:
+			out[i] = result.FleetLineOf(hulls[i], c.Result)
+		}
+		if keep && c.Result != nil {
+			mu.Lock()
+			kept[hulls[i]] = c.Result
+			mu.Unlock()
+		}
+	})
+	return out, kept
+}
+
+// each calls f for 0 ≤ i < n, opts.parallel() at a time, reporting
+// progress after each.
+func each(n int, opts Options, f func(i int)) {
 	jobs := make(chan int)
 	var wg sync.WaitGroup
 	var mu sync.Mutex
 	done := 0
-	for w := 0; w < workers; w++ {
+	for w := 0; w < min(opts.parallel(), max(n, 1)); w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
 			for i := range jobs {
-				var r *result.Result
-				out[i], r = fleetLine(root, hulls[i])
-				mu.Lock()
-				if r != nil && opts.Keep != nil && opts.Keep(hulls[i]) {
-					kept[hulls[i]] = r
-				}
-				done++
+				f(i)
 				if opts.Progress != nil {
-					opts.Progress(done, len(hulls))
+					mu.Lock()
+					done++
+					opts.Progress(done, n)
+					mu.Unlock()
 				}
-				mu.Unlock()
 			}
 		}()
 	}
-	for i := range hulls {
+	for i := 0; i < n; i++ {
 		jobs <- i
 	}
 	close(jobs)
 	wg.Wait()
-	return out, kept
-}
-
-func fleetLine(root, hull string) (result.FleetLine, *result.Result) {
-	r, _, err := Compile(filepath.Join(root, filepath.FromSlash(hull)))
-	if err != nil {
-		b := broken(hull, err)
-		return result.FleetLine{Path: hull, Problems: b.Problems, LowestSoC: -1}, nil
-	}
-	return result.FleetLineOf(hull, r), r
 }
 
 // ChangedSince reports which of the hulls (slash paths relative to the

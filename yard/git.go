@@ -6,6 +6,7 @@ import (
 	"io"
 	"os"
 	"os/exec"
+	"strconv"
 	"strings"
 )
 
@@ -19,6 +20,7 @@ var hardened = []string{
 	"-c", "core.hooksPath=/dev/null",
 	"-c", "core.pager=cat",
 	"-c", "core.untrackedCache=false",
+	"-c", "log.showSignature=false",
 	"-c", "protocol.allow=never",
 	"--no-pager",
 }
@@ -63,4 +65,27 @@ func git(dir string, stdin io.Reader, args ...string) ([]byte, error) {
 		return nil, fmt.Errorf("git %s: %s", strings.Join(args, " "), msg)
 	}
 	return out, nil
+}
+
+// commitTime is a commit's committer time, Unix seconds, read from the
+// commit object itself: `git log` would verify a signature with the
+// configured gpg.program when the repository asks it to.
+func commitTime(dir, commit string) int64 {
+	out, err := git(dir, nil, "cat-file", "commit", commit)
+	if err != nil {
+		return 0
+	}
+	for _, line := range strings.Split(string(out), "\n") {
+		if line == "" {
+			break // the end of the headers
+		}
+		if rest, ok := strings.CutPrefix(line, "committer "); ok {
+			f := strings.Fields(rest)
+			if len(f) >= 2 {
+				t, _ := strconv.ParseInt(f[len(f)-2], 10, 64)
+				return t
+			}
+		}
+	}
+	return 0
 }

@@ -2,7 +2,6 @@ package yard
 
 import (
 	"io/fs"
-	"os"
 	"path"
 	"regexp"
 	"sort"
@@ -16,17 +15,21 @@ import (
 var isHullFile = regexp.MustCompile(`(?m)^vessel\s*:`)
 
 // Hulls lists the hull packages under root, as slash paths relative to
-// it, sorted. It reads src when given, else the host file system; cue.mod
-// and hidden directories are skipped.
+// it, sorted. It reads src when given, else the host file system through
+// compiler.ModuleFS; cue.mod and hidden directories are skipped. A
+// directory with a .cue file that may not be read (a link leading out of
+// the yard, a device) is listed too, so that compiling it says why.
 func Hulls(root string, src *compiler.Source) ([]string, error) {
 	var fsys fs.FS
 	if src != nil {
 		fsys = src.FS()
-		root = "."
 	} else {
-		fsys = os.DirFS(root)
-		root = "."
+		var err error
+		if fsys, err = yardFS(root); err != nil {
+			return nil, err
+		}
 	}
+	root = "."
 	seen := map[string]bool{}
 	err := fs.WalkDir(fsys, root, func(p string, d fs.DirEntry, err error) error {
 		if err != nil {
@@ -42,10 +45,7 @@ func Hulls(root string, src *compiler.Source) ([]string, error) {
 			return nil
 		}
 		b, err := fs.ReadFile(fsys, p)
-		if err != nil {
-			return err
-		}
-		if isHullFile.Match(b) {
+		if err != nil || isHullFile.Match(b) {
 			seen[path.Dir(p)] = true
 		}
 		return nil
@@ -59,4 +59,10 @@ func Hulls(root string, src *compiler.Source) ([]string, error) {
 	}
 	sort.Strings(out)
 	return out, nil
+}
+
+// yardFS is a yard on disk, read through compiler.ModuleFS with the limit
+// on one file: a walk over the whole yard reads more than one design.
+func yardFS(root string) (fs.FS, error) {
+	return compiler.ModuleFS(root, compiler.Limits{MaxFile: compiler.DefaultLimits.MaxFile})
 }

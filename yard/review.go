@@ -10,16 +10,47 @@ import (
 	"github.com/ampwright/ampwright/result"
 )
 
-// compiled is one side of a hull in a diff: its design and input values.
+// compiled is one side of a hull in a diff: its input values and where
+// each is written, as a worker sends them back.
 type compiled struct {
-	d      *compiler.Design
-	inputs map[string]string
+	inputs  map[string]string
+	entries map[string]string
+	own     map[string]bool
+}
+
+func compiledOf(c Compiled) compiled {
+	return compiled{inputs: c.Inputs, entries: c.Entries, own: c.Own}
 }
 
 // has reports whether the side has a value at p.
 func (c compiled) has(p string) bool {
 	_, ok := c.inputs[p]
 	return ok
+}
+
+// entry is the entry of the design the input at p belongs to.
+func (c compiled) entry(p string) string {
+	if e, ok := c.entries[p]; ok {
+		return e
+	}
+	if sels := cue.ParsePath(p).Selectors(); len(sels) > 0 {
+		return cue.MakePath(sels[0]).String()
+	}
+	return p
+}
+
+// origins gives, for every input of design d, the entry it belongs to
+// and whether the hull's own files write it: what splitInputs needs of a
+// side, small enough for a worker to send back.
+func origins(d *compiler.Design, inputs map[string]string) (entries map[string]string, own map[string]bool) {
+	entries, own = map[string]string{}, map[string]bool{}
+	for p := range inputs {
+		entries[p] = d.Entry(p)
+		if d.WrittenInHull(p) {
+			own[p] = true
+		}
+	}
+	return entries, own
 }
 
 // splitInputs sorts a hull's input changes into those written in its own
@@ -36,9 +67,9 @@ func splitInputs(changes []result.InputChange, base, head compiled) ([]result.En
 	var order []string
 	entryOf := func(p string) string {
 		if head.has(p) {
-			return head.d.Entry(p)
+			return head.entry(p)
 		}
-		return base.d.Entry(p)
+		return base.entry(p)
 	}
 	for _, c := range changes {
 		s, ok := sharedOf(c, base, head, entryOf)
@@ -78,7 +109,7 @@ func splitInputs(changes []result.InputChange, base, head compiled) ([]result.En
 // sharedOf returns the shared change that input change c is a part of, or
 // false when the hull's own files make it.
 func sharedOf(c result.InputChange, base, head compiled, entryOf func(string) string) (result.SharedChange, bool) {
-	if (base.has(c.Path) && base.d.WrittenInHull(c.Path)) || (head.has(c.Path) && head.d.WrittenInHull(c.Path)) {
+	if base.own[c.Path] || head.own[c.Path] {
 		return result.SharedChange{}, false
 	}
 	sels := cue.ParsePath(c.Path).Selectors()

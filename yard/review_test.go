@@ -95,7 +95,7 @@ func TestDiffSharedCatalogChange(t *testing.T) {
 	}
 	base := smallYard(t, "50 A", hulls)
 	head := smallYard(t, "30 A", hulls)
-	yd, err := DiffYard(Side{Name: "a", Dir: base}, Side{Name: "b", Dir: head})
+	yd, err := DiffYard(Side{Name: "a", Dir: base}, Side{Name: "b", Dir: head}, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -137,7 +137,7 @@ func TestDiffOwnChanges(t *testing.T) {
 	after[0].fridge = true                                   // a load and its run added
 	after[1].battery = "tern-li200"                          // a part swapped
 	after[2].lampPower, after[2].feedLength = "30 W", "20 m" // a run's drop from 0.24 % to 7.2 % of a 10 % limit
-	yd, err := DiffYard(Side{Name: "a", Dir: smallYard(t, "50 A", before)}, Side{Name: "b", Dir: smallYard(t, "50 A", after)})
+	yd, err := DiffYard(Side{Name: "a", Dir: smallYard(t, "50 A", before)}, Side{Name: "b", Dir: smallYard(t, "50 A", after)}, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

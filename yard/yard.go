@@ -18,7 +18,7 @@ import (
 func Compile(dir string) (*result.Result, *compiler.Design, error) {
 	r, d, err := compiler.Compile(dir)
 	if err == nil {
-		attach(r, FactsOf(d.Root, d.Files))
+		attach(r, FactsOf(d.Root, d.Files, d.ReadInput))
 	}
 	return r, d, err
 }

@@ -5,6 +5,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/ampwright/ampwright/compiler"
 	"github.com/ampwright/ampwright/report"
 )
 
@@ -29,8 +30,12 @@ and no thousands separators.`,
 			if err := checkFormat(format, "text", "csv", "json"); err != nil {
 				return err
 			}
-			r, err := compileOne(args[0])
+			stop := watchOne(cmd.ErrOrStderr(), args[0], 0)
+			defer stop()
+			// A bill of materials shows no revision: git is not asked.
+			r, _, err := compiler.Compile(args[0])
 			if err != nil {
+				r = brokenResult(args[0], problemsOf(err))
 				if perr := printProblems(cmd.ErrOrStderr(), args[0], r); perr != nil {
 					return perr
 				}

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"runtime"
+	"sync"
 
 	"github.com/spf13/cobra"
 
@@ -50,22 +52,21 @@ Exit status: 0 when every check passes or warns, 1 when a check fails,
 
 func runCheck(opts *checkOptions, dirs []string) error {
 	code := exitOK
-	var results []*result.Result
-	for i, dir := range dirs {
-		r, err := compileOne(dir)
-		if err != nil {
+	results := compileAll(opts.stderr, dirs)
+	for i, r := range results {
+		dir := dirs[i]
+		if len(r.Problems) > 0 {
 			code = exitInput
 		} else if r.Verdict() == result.Fail && code == exitOK {
 			code = exitFail
 		}
-		results = append(results, r)
 		if opts.format == "json" {
 			continue
 		}
 		if i > 0 {
 			fmt.Fprintln(opts.stdout)
 		}
-		if err != nil {
+		if len(r.Problems) > 0 {
 			if err := printProblems(opts.stderr, dir, r); err != nil {
 				return err
 			}
@@ -90,26 +91,73 @@ func runCheck(opts *checkOptions, dirs []string) error {
 	return nil
 }
 
+// compileAll compiles designs, one in this process under the watchdog,
+// several in worker processes, and returns their results in order; a
+// design with input errors, or that passed a bound, has problems.
+func compileAll(stderr io.Writer, dirs []string) []*result.Result {
+	out := make([]*result.Result, len(dirs))
+	if len(dirs) == 1 {
+		stop := watchOne(stderr, dirs[0], 0)
+		defer stop()
+		out[0], _ = compileOne(dirs[0])
+		return out
+	}
+	opts, done := newPool(stderr)
+	defer done()
+	run := opts.Run
+	if run == nil {
+		run = yard.Local
+	}
+	var wg sync.WaitGroup
+	sem := make(chan struct{}, runtime.GOMAXPROCS(0))
+	for i, dir := range dirs {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			sem <- struct{}{}
+			defer func() { <-sem }()
+			c := run(yard.Side{}, dir, yard.WantResult)
+			if c.OK() {
+				c.Result.Design.Path = dir
+				out[i] = c.Result
+				return
+			}
+			out[i] = brokenResult(dir, c.Problems)
+		}()
+	}
+	wg.Wait()
+	return out
+}
+
 // printProblems writes a design's input errors as every command does: a
 // count, then one error a line.
 func printProblems(w io.Writer, dir string, r *result.Result) error {
-	fmt.Fprintf(w, "%s: %d input error(s)\n", dir, len(r.Problems))
+	if err := report.Printf(w, "%s: %d input error(s)\n", dir, len(r.Problems)); err != nil {
+		return err
+	}
 	return report.Problems(w, r.Problems)
 }
 
-// compileOne compiles one design; on input errors the result carries them
-// as problems and the error is returned too.
+// compileOne compiles one design in this process; on input errors the
+// result carries them as problems and the error is returned too.
 func compileOne(dir string) (*result.Result, error) {
 	r, _, err := yard.Compile(dir)
 	if err == nil {
 		return r, nil
 	}
-	r = &result.Result{Version: result.Version, Design: result.Identity{Path: dir}, Figures: []result.Figure{}, Checks: []result.Finding{}}
+	return brokenResult(dir, problemsOf(err)), err
+}
+
+// problemsOf turns an error of the compiler into a result's problems.
+func problemsOf(err error) []result.Problem {
 	var list compiler.ErrorList
 	if errors.As(err, &list) {
-		r.Problems = list.Problems()
-	} else {
-		r.Problems = []result.Problem{{Message: err.Error()}}
+		return list.Problems()
 	}
-	return r, err
+	return []result.Problem{{Message: err.Error()}}
+}
+
+// brokenResult is the result of a design that did not compile.
+func brokenResult(dir string, problems []result.Problem) *result.Result {
+	return &result.Result{Version: result.Version, Design: result.Identity{Path: dir}, Figures: []result.Figure{}, Checks: []result.Finding{}, Problems: problems}
 }

@@ -30,7 +30,7 @@ type diffOptions struct {
 	base, head, format, failOn string
 	maxBytes                   int
 	jsonOut                    string
-	stdout                     io.Writer
+	stdout, stderr             io.Writer
 }
 
 func newDiffCmd() *cobra.Command {
@@ -89,7 +89,7 @@ side.`,
 			default:
 				return usageError("--%s %q: expected regression|failing|never", flagFailOn, opts.failOn)
 			}
-			opts.stdout = cmd.OutOrStdout()
+			opts.stdout, opts.stderr = cmd.OutOrStdout(), cmd.ErrOrStderr()
 			return runDiff(opts, args)
 		},
 	}
@@ -149,7 +149,9 @@ func runDiff(opts *diffOptions, args []string) error {
 			head = yard.Side{Name: "work tree", Dir: root}
 		}
 	}
-	d, err := yard.DiffYard(base, head)
+	run, done := newPool(opts.stderr)
+	defer done()
+	d, err := yard.DiffYard(base, head, run)
 	if err != nil {
 		return &exitError{code: exitInput, err: err}
 	}
@@ -173,7 +175,9 @@ func runDiff(opts *diffOptions, args []string) error {
 	case "hulls":
 		for _, h := range d.Hulls {
 			if h.State == result.HullChanged || h.State == result.HullAdded {
-				fmt.Fprintln(opts.stdout, h.Path)
+				if err := report.Printf(opts.stdout, "%s\n", h.Path); err != nil {
+					return err
+				}
 			}
 		}
 	default:

@@ -52,8 +52,10 @@ verdict, failing and warning counts, cost (the bill of materials' total,
 "incomplete" when a part has no price), bank, array, worst voltage drop
 against its limit, the lowest state of charge on the design voyage, and
 the IDs of the checks that fail and warn. A broken hull is reported with
-its errors and does not stop the others. A DIR with no hulls is an error:
-a mistyped yard must fail a CI job, not pass it.
+its errors and does not stop the others; each hull is compiled in a worker
+process, and one that passes --timeout or --max-memory is stopped and
+reported broken. A DIR with no hulls is an error: a mistyped yard must
+fail a CI job, not pass it.
 
 --sort verdict puts the worst hulls first, --sort cost the dearest.
 --failing CHECK and --warning CHECK keep the hulls on which a check fails
@@ -181,8 +183,11 @@ func runFleet(opts *fleetOptions, dir string) error {
 	}
 	f.Since = opts.since
 	keep := func(h string) bool { return opts.packs != "" && (opts.since == "" || changed[h]) }
+	run, done := newPool(opts.stderr)
+	defer done()
+	run.Progress, run.Keep = progressBar(opts.stderr), keep
 	var results map[string]*result.Result
-	f.Hulls, results = yard.Fleet(dir, hulls, yard.FleetOptions{Progress: progressBar(opts.stderr), Keep: keep})
+	f.Hulls, results = yard.Fleet(dir, hulls, run)
 	for i := range f.Hulls {
 		f.Hulls[i].Changed = changed[f.Hulls[i].Path]
 	}

@@ -12,10 +12,10 @@ import (
 func main() {
 	// One design's run is short and its heap is mostly CUE's, built once
 	// and read: collecting less often saves about a tenth of a check.
-	// fleet and diff compile many designs and keep Go's default, which
-	// measured faster there and keeps a fleet under 100 MiB. GOGC in the
-	// environment still wins.
-	if len(os.Args) > 1 && os.Args[1] != "fleet" && os.Args[1] != "diff" && os.Getenv("GOGC") == "" {
+	// A worker compiles many designs and keeps Go's default, which
+	// measured faster there. GOGC in the environment still wins; the
+	// --max-memory bound sets a soft memory limit either way.
+	if len(os.Args) > 1 && os.Args[1] != "fleet" && os.Args[1] != "diff" && os.Args[1] != "worker" && os.Getenv("GOGC") == "" {
 		debug.SetGCPercent(400)
 	}
 	os.Exit(Main())

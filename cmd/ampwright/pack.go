@@ -13,6 +13,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/ampwright/ampwright/compiler"
 	"github.com/ampwright/ampwright/report"
 	"github.com/ampwright/ampwright/result"
 )
@@ -20,12 +21,14 @@ import (
 const (
 	flagPaper       = "paper"
 	flagRequirePass = "require-pass"
+	flagMaxPages    = "max-pages"
 )
 
 type packOptions struct {
 	out         string
 	paper       string
 	requirePass bool
+	maxPages    int
 	stdout      io.Writer
 	stderr      io.Writer
 }
@@ -65,6 +68,7 @@ Exit status: 0 when every check passes or warns, 1 when a check fails,
 	c.Flags().StringVarP(&opts.out, flagOut, "o", "", "the PDF file to write (required)")
 	c.Flags().StringVar(&opts.paper, flagPaper, "a4", "paper size: a4|letter")
 	c.Flags().BoolVar(&opts.requirePass, flagRequirePass, false, "write no pack when a check fails")
+	c.Flags().IntVar(&opts.maxPages, flagMaxPages, 500, "write no pack that would have more pages than this")
 	_ = c.MarkFlagFilename(flagOut, "pdf")
 	_ = c.RegisterFlagCompletionFunc(flagPaper, func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
 		return []string{"a4", "letter"}, cobra.ShellCompDirectiveNoFileComp
@@ -85,7 +89,13 @@ func runPack(opts *packOptions, dir string) error {
 		return usageError("%v", err)
 	}
 
+	if opts.maxPages < 1 {
+		return usageError("--%s %d: expected at least 1", flagMaxPages, opts.maxPages)
+	}
+
+	stop := watchOne(opts.stderr, dir, 0)
 	r, err := compileOne(dir)
+	stop()
 	if err != nil {
 		if err := printProblems(opts.stderr, dir, r); err != nil {
 			return err
@@ -94,23 +104,36 @@ func runPack(opts *packOptions, dir string) error {
 	}
 	c := r.Count()
 	if c.Fail > 0 && opts.requirePass {
-		fmt.Fprintf(opts.stderr, "%s: %s; no pack written (--%s)\n", dir, failSummary(r), flagRequirePass)
+		report.Printf(opts.stderr, "%s: %s; no pack written (--%s)\n", dir, failSummary(r), flagRequirePass)
 		return &exitError{code: exitFail}
 	}
 
+	// Drawing has the same time bound as compiling, checked page by page;
+	// the watchdog, a little later, is for a page that never ends.
+	lim := compiler.DefaultLimits
+	stop = watchOne(opts.stderr, dir, drawGrace)
+	defer stop()
 	var b bytes.Buffer
-	if err := report.Pack(&b, r, report.PackOptions{PageSize: paper, Date: date}); err != nil {
+	err = report.Pack(&b, r, report.PackOptions{PageSize: paper, Date: date, MaxPages: opts.maxPages, Deadline: time.Now().Add(lim.Timeout)})
+	var bound *report.PackBoundError
+	switch {
+	case errors.As(err, &bound) && bound.Time:
+		return &exitError{code: exitInput, err: fmt.Errorf("%s: %v (the --%s bound of %s); raise --%s if the design is merely large", dir, err, flagTimeout, lim.Timeout, flagTimeout)}
+	case errors.As(err, &bound):
+		return &exitError{code: exitInput, err: fmt.Errorf("%s: %v (--%s); raise --%s, or split the design", dir, err, flagMaxPages, flagMaxPages)}
+	case err != nil:
 		return &exitError{code: exitInput, err: err}
 	}
 	if err := writeFileAtomic(opts.out, b.Bytes()); err != nil {
 		return &exitError{code: exitInput, err: fmt.Errorf("cannot write %s: %v", opts.out, pathErr(err))}
 	}
 	if c.Fail > 0 {
-		fmt.Fprintf(opts.stdout, "wrote %s: NOT APPROVED, %s\n", opts.out, failSummary(r))
+		if err := report.Printf(opts.stdout, "wrote %s: NOT APPROVED, %s\n", opts.out, failSummary(r)); err != nil {
+			return err
+		}
 		return &exitError{code: exitFail}
 	}
-	fmt.Fprintf(opts.stdout, "wrote %s: %d checks pass, %d warn\n", opts.out, c.Pass, c.Warn)
-	return nil
+	return report.Printf(opts.stdout, "wrote %s: %d checks pass, %d warn\n", opts.out, c.Pass, c.Warn)
 }
 
 // paperSize maps --paper to the pack's page size.
@@ -123,6 +146,10 @@ func paperSize(s string) (string, error) {
 	}
 	return "", usageError("--%s %q: expected a4|letter", flagPaper, s)
 }
+
+// drawGrace is how much longer than --timeout the watchdog lets a pack's
+// drawing run: the drawing checks its own deadline at each page.
+const drawGrace = 10 * time.Second
 
 // failSummary says how many checks fail and which.
 func failSummary(r *result.Result) string {

@@ -9,6 +9,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/ampwright/ampwright/compiler"
+	"github.com/ampwright/ampwright/report"
 )
 
 // Exit statuses.
@@ -20,15 +21,17 @@ const (
 
 // Flag names.
 const (
-	flagFormat  = "format"
-	flagOut     = "out"
-	flagTimeout = "timeout"
+	flagFormat    = "format"
+	flagOut       = "out"
+	flagTimeout   = "timeout"
+	flagMaxMemory = "max-memory"
 )
 
 // exitError carries an exit status through cobra.
 type exitError struct {
 	code int
-	err  error // already printed when nil
+	err  error  // already printed when nil
+	hint string // for a bad command line: where to read the usage
 }
 
 func (e *exitError) Error() string {
@@ -43,6 +46,17 @@ func usageError(format string, args ...any) error {
 	return &exitError{code: exitInput, err: fmt.Errorf(format, args...)}
 }
 
+// failed is what a command's error becomes: its own exit status, or, for
+// an error that is not a bad command line (a file that cannot be written,
+// output that cannot be written), status 2 and no word about usage.
+func failed(err error) error {
+	var ee *exitError
+	if err == nil || errors.As(err, &ee) {
+		return err
+	}
+	return &exitError{code: exitInput, err: err}
+}
+
 // Main runs the command line and returns the exit status.
 func Main() int {
 	return run(os.Args[1:], os.Stdout, os.Stderr)
@@ -55,19 +69,30 @@ func run(args []string, stdout, stderr io.Writer) int {
 	if err == nil {
 		return exitOK
 	}
+	// Messages go through report.Printf: an error may name a file of the
+	// yard, whose name is the yard's text.
 	var ee *exitError
 	if errors.As(err, &ee) {
 		if ee.err != nil {
-			fmt.Fprintf(stderr, "ampwright: %v\n", ee.err)
+			report.Printf(stderr, "ampwright: %v\n", ee.err)
+		}
+		if ee.hint != "" {
+			fmt.Fprintln(stderr, ee.hint)
 		}
 		return ee.code
 	}
-	// cobra's own errors: unknown command or flag, wrong argument count.
-	fmt.Fprintf(stderr, "ampwright: %v\nRun 'ampwright help' for usage.\n", err)
+	// cobra's own errors: unknown command, wrong argument count.
+	report.Printf(stderr, "ampwright: %v\n", err)
+	fmt.Fprintln(stderr, "Run 'ampwright help' for usage.")
 	return exitInput
 }
 
+// pristine are the limits before any flag sets them: each run starts from
+// them (tests call run many times in one process).
+var pristine = compiler.DefaultLimits
+
 func newRootCmd(stdout, stderr io.Writer) *cobra.Command {
+	compiler.DefaultLimits = pristine
 	root := &cobra.Command{
 		Use:   "ampwright",
 		Short: "Check a boat's DC and solar-charging design written in CUE",
@@ -91,13 +116,21 @@ nor the standards and local rules that apply to the boat.`,
   ampwright schema --out cue.mod/pkg/ampwright.dev/schema`,
 		SilenceErrors: true,
 		SilenceUsage:  true,
+		PersistentPreRunE: func(*cobra.Command, []string) error {
+			if compiler.DefaultLimits.Timeout <= 0 {
+				return usageError("--%s %s: expected a duration of more than 0, such as 60s", flagTimeout, compiler.DefaultLimits.Timeout)
+			}
+			return nil
+		},
 	}
 	root.SetOut(stdout)
 	root.SetErr(stderr)
 	root.PersistentFlags().DurationVar(&compiler.DefaultLimits.Timeout, flagTimeout, compiler.DefaultLimits.Timeout,
-		"give up on a design that takes longer than this to compile")
+		"stop work on a design that takes longer than this (its compile; for pack, also its drawing)")
+	root.PersistentFlags().Var(sizeValue{&compiler.DefaultLimits.MaxMemory}, flagMaxMemory,
+		"stop work on a design whose compile needs more memory than this, such as 512MiB or 2GiB")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
-		return usageError("%v\nRun '%s --help' for usage.", err, c.CommandPath())
+		return &exitError{code: exitInput, err: err, hint: fmt.Sprintf("Run '%s --help' for usage.", c.CommandPath())}
 	})
 	root.AddCommand(
 		newCheckCmd(),
@@ -109,7 +142,13 @@ nor the standards and local rules that apply to the boat.`,
 		newPackCmd(),
 		newSchemaCmd(),
 		newVersionCmd(),
+		newWorkerCmd(),
 	)
+	for _, c := range root.Commands() {
+		if run := c.RunE; run != nil {
+			c.RunE = func(cmd *cobra.Command, args []string) error { return failed(run(cmd, args)) }
+		}
+	}
 	return root
 }
 

@@ -2,13 +2,13 @@ package main
 
 import (
 	"bytes"
-	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
 
 	"github.com/spf13/cobra"
 
+	"github.com/ampwright/ampwright/report"
 	"github.com/ampwright/ampwright/schema"
 )
 
@@ -35,7 +35,7 @@ are left alone.`,
 			if err := writeSchema(out); err != nil {
 				return &exitError{code: exitInput, err: err}
 			}
-			fmt.Fprintf(cmd.OutOrStdout(), "wrote schema package to %s\n", out)
+			report.Printf(cmd.OutOrStdout(), "wrote schema package to %s\n", out)
 			return nil
 		},
 	}
@@ -83,6 +83,7 @@ func writeFileAtomic(name string, b []byte) error {
 		return err
 	}
 	tmp := f.Name()
+	addTemp(tmp)
 	_, werr := f.Write(b)
 	cerr := f.Close()
 	if werr == nil {
@@ -92,10 +93,11 @@ func writeFileAtomic(name string, b []byte) error {
 		werr = os.Chmod(tmp, 0o644)
 	}
 	if werr == nil {
-		werr = os.Rename(tmp, name)
+		werr = renameTemp(tmp, name)
 	}
 	if werr != nil {
 		os.Remove(tmp)
+		dropTemp(tmp)
 		return werr
 	}
 	return nil

@@ -184,7 +184,7 @@ func cmdPDFText(ts *testscript.TestScript, neg bool, args []string) {
 		var shown []string
 		show := func(v pdf.Value) {
 			if v.Kind() == pdf.String {
-				shown = append(shown, utf16be(v.RawString()))
+				shown = append(shown, decodeUTF16BE(v.RawString()))
 			}
 		}
 		contents := r.Page(i).V.Key("Contents")
@@ -219,8 +219,8 @@ func cmdPDFText(ts *testscript.TestScript, neg bool, args []string) {
 	}
 }
 
-// utf16be decodes a string of UTF-16BE code units.
-func utf16be(s string) string {
+// decodeUTF16BE decodes a string of UTF-16BE code units.
+func decodeUTF16BE(s string) string {
 	u := make([]uint16, 0, len(s)/2)
 	for i := 0; i+1 < len(s); i += 2 {
 		u = append(u, uint16(s[i])<<8|uint16(s[i+1]))

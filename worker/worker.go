@@ -1,0 +1,129 @@
+// Package worker runs the compiles of a fleet, a diff or a check of
+// several designs in child processes of ampwright, so that a hull that
+// passes a bound of time or memory is stopped while the others finish.
+// CUE evaluation cannot be cancelled inside a process: a compile that
+// passes a bound is stopped by ending the process that runs it.
+//
+// A worker is the same binary run as `ampwright worker` (a hidden
+// command): Serve reads requests, one JSON object a line, on its standard
+// input and writes one answer a line on its standard output, for as many
+// hulls as it is given. A Pool starts workers, hands each request to an
+// idle one, kills a worker whose hull passes the time bound and replaces
+// it; a worker whose heap passes the memory bound ends itself (Watch) with
+// ExitMemory.
+//
+// Watch is also the watchdog of a command that compiles one design in its
+// own process (check, pack, bom of one hull).
+package worker
+
+import (
+	"bufio"
+	"encoding/json"
+	"fmt"
+	"io"
+	"os"
+	"time"
+
+	"github.com/ampwright/ampwright/compiler"
+	"github.com/ampwright/ampwright/yard"
+)
+
+// Exit statuses of a worker that ended itself on a bound.
+const (
+	ExitMemory = 3
+	ExitTime   = 4
+)
+
+// Request asks a worker to compile one hull.
+type Request struct {
+	ID uint64 `json:"id"`
+	// Dir is the side's directory on disk: a yard's module, or "" for a
+	// design named by its own path in Hull.
+	Dir string `json:"dir"`
+	// Rev is a commit: the side is then Dir's module as it was at Rev,
+	// read from git's objects.
+	Rev  string    `json:"rev,omitempty"`
+	Hull string    `json:"hull"`
+	Want yard.Want `json:"want"`
+}
+
+// Answer is a worker's answer to a request.
+type Answer struct {
+	ID uint64 `json:"id"`
+	yard.Compiled
+}
+
+// graceTime is how much longer than the time bound a worker lets a
+// compile run before it ends itself: the pool's own timer should stop it
+// first, and this one stops a worker whose pool has gone.
+const graceTime = 5 * time.Second
+
+// Serve answers requests from in on out until in ends, compiling each hull
+// in this process within lim: a heap over lim.MaxMemory ends the process
+// with ExitMemory, a compile longer than lim.Timeout and a grace period
+// with ExitTime.
+func Serve(in io.Reader, out io.Writer, lim compiler.Limits) error {
+	stop := Watch(0, lim.MaxMemory, func(Bound) { os.Exit(ExitMemory) })
+	defer stop()
+	dec := json.NewDecoder(bufio.NewReader(in))
+	w := bufio.NewWriter(out)
+	enc := json.NewEncoder(w)
+	revs := &revisions{}
+	for {
+		var req Request
+		if err := dec.Decode(&req); err == io.EOF {
+			return nil
+		} else if err != nil {
+			return fmt.Errorf("worker: reading a request: %v", err)
+		}
+		var timer *time.Timer
+		if lim.Timeout > 0 {
+			timer = time.AfterFunc(lim.Timeout+graceTime, func() { os.Exit(ExitTime) })
+		}
+		ans := Answer{ID: req.ID, Compiled: compile(req, revs)}
+		if timer != nil {
+			timer.Stop()
+		}
+		if err := enc.Encode(ans); err != nil {
+			return err
+		}
+		if err := w.Flush(); err != nil {
+			return err
+		}
+	}
+}
+
+func compile(req Request, revs *revisions) yard.Compiled {
+	side := yard.Side{Dir: req.Dir}
+	if req.Rev != "" {
+		rv, err := revs.get(req.Dir, req.Rev)
+		if err != nil {
+			return yard.Compiled{Problems: problems(err)}
+		}
+		side = yard.Side{Rev: rv}
+	}
+	return yard.Local(side, req.Hull, req.Want)
+}
+
+// revisions keeps the last revisions a worker read: a diff asks for two.
+type revisions struct {
+	keys [2]string
+	revs [2]*yard.Revision
+	next int
+}
+
+func (r *revisions) get(dir, rev string) (*yard.Revision, error) {
+	key := dir + "\x00" + rev
+	for i, k := range r.keys {
+		if k == key {
+			return r.revs[i], nil
+		}
+	}
+	rv, err := yard.ReadRevision(dir, rev)
+	if err != nil {
+		return nil, err
+	}
+	r.keys[r.next], r.revs[r.next] = key, rv
+	r.next = (r.next + 1) % len(r.keys)
+	return rv, nil
+}
