@@ -24,16 +24,16 @@ const (
 // fleet line), or the problems that stopped it. It is also what a worker
 // process sends back.
 type Compiled struct {
-	Result   *result.Result    `json:"result,omitempty"`
-	Line     *result.FleetLine `json:"line,omitempty"`
-	Inputs   map[string]string `json:"inputs,omitempty"`
+	Result *result.Result    `json:"result,omitempty"`
+	Line   *result.FleetLine `json:"line,omitempty"`
+	Inputs map[string]string `json:"inputs,omitempty"`
 	// Entries and Own say, for each input, the entry it belongs to and
 	// whether the hull's own files write it (see splitInputs).
 	Entries map[string]string `json:"entries,omitempty"`
 	Own     map[string]bool   `json:"own,omitempty"`
 	// Review is the rulebook's review table, for the diff's margins.
 	Review   *schema.ReviewRule `json:"review,omitempty"`
-	Problems []result.Problem  `json:"problems,omitempty"`
+	Problems []result.Problem   `json:"problems,omitempty"`
 }
 
 // OK reports whether the hull compiled.
