@@ -8,6 +8,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 	"unicode/utf8"
 
 	"cuelang.org/go/cue/parser"
@@ -35,12 +36,7 @@ func gather(fsys fs.FS, dir, label string) (files map[string][]byte, notUTF8 []s
 		return nil, nil, err
 	}
 	if mod != nil {
-		if mf, err := modfile.ParseNonStrict(mod, modFile); err == nil {
-			g.modPath = mf.QualifiedModule()
-			if i := strings.IndexByte(g.modPath, '@'); i >= 0 {
-				g.modPath = g.modPath[:i]
-			}
-		}
+		g.modPath = modulePath(mod)
 		// cue/load would read the replacements' directories, which may lie
 		// anywhere on the host.
 		if _, err := fs.Stat(fsys, localModFile); err == nil || !errors.Is(err, fs.ErrNotExist) {
@@ -64,10 +60,37 @@ func gather(fsys fs.FS, dir, label string) (files map[string][]byte, notUTF8 []s
 	return g.files, g.notUTF8, nil
 }
 
+// modulePaths remembers the module path of each module file read: parsing
+// one evaluates CUE, and a fleet gathers every hull of the same module.
+var modulePaths sync.Map // module file's contents → its path
+
+// modulePath is the path a module file declares, without a major
+// version, or "" when it does not parse.
+func modulePath(mod []byte) string {
+	if p, ok := modulePaths.Load(string(mod)); ok {
+		return p.(string)
+	}
+	var p string
+	if mf, err := modfile.ParseNonStrict(mod, modFile); err == nil {
+		p = mf.QualifiedModule()
+		if i := strings.IndexByte(p, '@'); i >= 0 {
+			p = p[:i]
+		}
+	}
+	modulePaths.Store(string(mod), p)
+	return p
+}
+
 const (
 	modFile      = "cue.mod/module.cue"
 	localModFile = "cue.mod/local-module.cue"
 )
+
+// importMemo is a file system that remembers the imports of the files it
+// keeps (memoFS): the catalog's, read for every hull of a fleet.
+type importMemo interface {
+	imports(name string, find func() []string) []string
+}
 
 // vendoredDir is where a yard vendors the schema.
 var vendoredDir = "cue.mod/pkg/" + schema.ImportPath
@@ -121,8 +144,14 @@ func (g *gatherer) pkg(d string) ([]string, error) {
 		}
 	}
 	var imports []string
+	memo, _ := g.fsys.(importMemo)
 	for name, b := range g.files {
-		if chain[path.Dir(name)] {
+		if !chain[path.Dir(name)] {
+			continue
+		}
+		if memo != nil {
+			imports = append(imports, memo.imports(name, func() []string { return g.importDirs(name, b) })...)
+		} else {
 			imports = append(imports, g.importDirs(name, b)...)
 		}
 	}
