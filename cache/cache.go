@@ -18,7 +18,6 @@
 package cache
 
 import (
-	"bufio"
 	"bytes"
 	"compress/gzip"
 	"crypto/sha256"
@@ -148,6 +147,10 @@ func (c *Cache) put(name, key, kind string, data []byte) error {
 		return err
 	}
 	_, err = f.Write(entry.Bytes())
+	if err == nil {
+		// Readable as any cache file is, not only by its writer.
+		err = f.Chmod(0o644)
+	}
 	if cerr := f.Close(); err == nil {
 		err = cerr
 	}
@@ -162,36 +165,43 @@ func (c *Cache) put(name, key, kind string, data []byte) error {
 
 // decode checks an entry read from disk and returns its data.
 func (c *Cache) decode(raw []byte, key, kind string) ([]byte, error) {
-	r := bufio.NewReader(bytes.NewReader(raw))
-	want := []string{magic, "tool " + c.tool, "key " + key, "kind " + kind}
-	for _, w := range want {
-		line, err := r.ReadString('\n')
-		if err != nil || line != w+"\n" {
+	rest := raw
+	line := func() (string, bool) {
+		i := bytes.IndexByte(rest, '\n')
+		if i < 0 {
+			return "", false
+		}
+		l := string(rest[:i])
+		rest = rest[i+1:]
+		return l, true
+	}
+	for _, want := range []string{magic, "tool " + c.tool, "key " + key, "kind " + kind} {
+		if l, ok := line(); !ok || l != want {
 			return nil, errors.New("a foreign entry")
 		}
 	}
 	var size int
 	var sum []byte
 	for _, field := range []string{"size ", "sha256 "} {
-		line, err := r.ReadString('\n')
-		v, ok := strings.CutPrefix(strings.TrimSuffix(line, "\n"), field)
-		if err != nil || !ok {
+		l, ok := line()
+		v, found := strings.CutPrefix(l, field)
+		if !ok || !found {
 			return nil, errors.New("a bad header")
 		}
-		switch field {
-		case "size ":
+		var err error
+		if field == "size " {
 			size, err = strconv.Atoi(v)
-		default:
+		} else {
 			sum, err = hex.DecodeString(v)
 		}
 		if err != nil {
 			return nil, errors.New("a bad header")
 		}
 	}
-	if line, err := r.ReadString('\n'); err != nil || line != "\n" {
+	if l, ok := line(); !ok || l != "" {
 		return nil, errors.New("a bad header")
 	}
-	payload := raw[len(raw)-r.Buffered():]
+	payload := rest
 	if len(payload) != size {
 		return nil, errors.New("the wrong size")
 	}

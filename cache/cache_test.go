@@ -43,6 +43,20 @@ func TestPutGet(t *testing.T) {
 	if _, ok := c.Get(key, "line"); ok {
 		t.Error("another kind of the same key has an entry")
 	}
+	// An entry larger than any buffer, that does not compress.
+	big := make([]byte, 1<<20)
+	for i := range big {
+		big[i] = byte(i*7919>>3 ^ i>>11)
+	}
+	big = []byte(fmt.Sprintf("%x", sha256.Sum256(big))) // seed
+	for len(big) < 1<<20 {
+		s := sha256.Sum256(big[len(big)-64:])
+		big = append(big, fmt.Sprintf("%x", s)...)
+	}
+	c.Put(key, "big", big)
+	if got, ok := c.Get(key, "big"); !ok || !bytes.Equal(got, big) {
+		t.Errorf("a large entry: %v", ok)
+	}
 	other := Open(c.Dir(), "test-tool v2", nil)
 	if _, ok := other.Get(key, "result"); ok {
 		t.Error("another version of the tool reads the entry")

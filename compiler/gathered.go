@@ -34,8 +34,9 @@ type Gathered struct {
 	// compile to the same result, byte for byte.
 	Key string
 
-	rel     string            // Dir relative to the module root, slash-separated
-	files   map[string][]byte // by slash path relative to the module root
+	rel     string              // Dir relative to the module root, slash-separated
+	files   map[string][]byte   // by slash path relative to the module root
+	digests map[string][32]byte // the files' SHA-256, as keyed
 	notUTF8 []string
 }
 
@@ -65,6 +66,13 @@ func GatherFS(fsys fs.FS, dir, label string) (*Gathered, error) {
 func (g *Gathered) Read(rel string) ([]byte, bool) {
 	b, ok := g.files[rel]
 	return b, ok
+}
+
+// Digest returns the SHA-256 of a gathered file, by its slash path
+// relative to the module root.
+func (g *Gathered) Digest(rel string) ([32]byte, bool) {
+	d, ok := g.digests[rel]
+	return d, ok
 }
 
 // Compile compiles the design from the gathered files (see CompileFrom).
@@ -101,6 +109,7 @@ func (g *Gathered) key(digest func(name string, b []byte) [32]byte) string {
 		names = append(names, name)
 	}
 	sort.Strings(names)
+	g.digests = make(map[string][32]byte, len(names))
 	for _, name := range names {
 		b := g.files[name]
 		var d [32]byte
@@ -109,6 +118,7 @@ func (g *Gathered) key(digest func(name string, b []byte) [32]byte) string {
 		} else {
 			d = sha256.Sum256(b)
 		}
+		g.digests[name] = d
 		fmt.Fprintf(h, "%s\x00%d\x00", name, len(b))
 		h.Write(d[:])
 	}

@@ -24,7 +24,9 @@ import (
 	"os"
 	"time"
 
+	"github.com/ampwright/ampwright/cache"
 	"github.com/ampwright/ampwright/compiler"
+	"github.com/ampwright/ampwright/result"
 	"github.com/ampwright/ampwright/yard"
 )
 
@@ -61,14 +63,21 @@ const graceTime = 5 * time.Second
 // Serve answers requests from in on out until in ends, compiling each hull
 // in this process within lim: a heap over lim.MaxMemory ends the process
 // with ExitMemory, a compile longer than lim.Timeout and a grace period
-// with ExitTime.
-func Serve(in io.Reader, out io.Writer, lim compiler.Limits) error {
+// with ExitTime. What it compiles it keeps in the result cache in
+// cacheDir ("" for none), and the cache's first error goes back with the
+// answer, for the command to report.
+func Serve(in io.Reader, out io.Writer, lim compiler.Limits, cacheDir string) error {
 	stop := Watch(0, lim.MaxMemory, func(Bound) { os.Exit(ExitMemory) })
 	defer stop()
 	dec := json.NewDecoder(bufio.NewReader(in))
 	w := bufio.NewWriter(out)
 	enc := json.NewEncoder(w)
 	revs := &revisions{}
+	var warning string
+	var ch *cache.Cache
+	if cacheDir != "" {
+		ch = cache.Open(cacheDir, cache.Tool(result.Version), func(err error) { warning = err.Error() })
+	}
 	for {
 		var req Request
 		if err := dec.Decode(&req); err == io.EOF {
@@ -80,7 +89,8 @@ func Serve(in io.Reader, out io.Writer, lim compiler.Limits) error {
 		if lim.Timeout > 0 {
 			timer = time.AfterFunc(lim.Timeout+graceTime, func() { os.Exit(ExitTime) })
 		}
-		ans := Answer{ID: req.ID, Compiled: compile(req, revs)}
+		ans := Answer{ID: req.ID, Compiled: compile(req, revs, ch)}
+		ans.Warning, warning = warning, ""
 		if timer != nil {
 			timer.Stop()
 		}
@@ -93,7 +103,7 @@ func Serve(in io.Reader, out io.Writer, lim compiler.Limits) error {
 	}
 }
 
-func compile(req Request, revs *revisions) yard.Compiled {
+func compile(req Request, revs *revisions, ch *cache.Cache) yard.Compiled {
 	side := yard.Side{Dir: req.Dir}
 	if req.Rev != "" {
 		rv, err := revs.get(req.Dir, req.Rev)
@@ -102,7 +112,7 @@ func compile(req Request, revs *revisions) yard.Compiled {
 		}
 		side = yard.Side{Rev: rv}
 	}
-	return yard.Local(side, req.Hull, req.Want)
+	return yard.Build(side, req.Hull, req.Want, ch)
 }
 
 // revisions keeps the last revisions a worker read: a diff asks for two.

@@ -3,6 +3,9 @@ package yard
 import (
 	"os"
 	"testing"
+
+	"github.com/ampwright/ampwright/cache"
+	"github.com/ampwright/ampwright/result"
 )
 
 // BenchmarkDiffYard measures DiffYard between a git revision and the work
@@ -26,4 +29,39 @@ func BenchmarkDiffYard(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
+}
+
+// BenchmarkFleetWarm measures a fleet of the yard named by
+// $AMPWRIGHT_BENCH_YARD whose every hull is in the result cache: the cost
+// of a hit (gathering and hashing a hull's files, reading its entry,
+// asking git's facts), with nothing compiled.
+func BenchmarkFleetWarm(b *testing.B) {
+	yard := os.Getenv("AMPWRIGHT_BENCH_YARD")
+	if yard == "" {
+		b.Skip("set AMPWRIGHT_BENCH_YARD to a yard in a git work tree")
+	}
+	hulls, err := Hulls(yard, nil)
+	if err != nil {
+		b.Fatal(err)
+	}
+	ch := cache.Open(b.TempDir(), "bench", func(err error) { b.Fatal(err) })
+	opts := Options{Cache: ch}
+	Fleet(yard, hulls, opts) // fills the cache
+	b.ResetTimer()
+	for b.Loop() {
+		hulls, err := Hulls(yard, nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		for _, l := range mustFleet(b, yard, hulls, opts) {
+			if l.Broken() && len(l.Problems) > 0 && l.Problems[0].Message == "" {
+				b.Fatal("broken")
+			}
+		}
+	}
+}
+
+func mustFleet(b *testing.B, yard string, hulls []string, opts Options) []result.FleetLine {
+	lines, _ := Fleet(yard, hulls, opts)
+	return lines
 }

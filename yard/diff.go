@@ -24,28 +24,24 @@ func (s Side) hulls() ([]string, error) {
 	return Hulls(s.Dir, nil)
 }
 
-// compile compiles a hull of the side; with facts, a hull on disk asks git
-// what it was read from (a fleet's line and a diff do not show it, and git
-// runs only where its answer is shown).
-func (s Side) compile(hull string, facts bool) (*result.Result, *compiler.Design, error) {
-	var r *result.Result
-	var d *compiler.Design
-	var err error
+// compile compiles a hull of the side, without git's facts.
+func (s Side) compile(hull string) (*result.Result, *compiler.Design, error) {
+	if s.Rev != nil {
+		return compiler.CompileFrom(hull, s.Rev.Source)
+	}
+	return compiler.Compile(hullDir(s.Dir, hull))
+}
+
+// gather reads the files of a hull of the side, through rd for a side on
+// disk when rd is not nil.
+func (s Side) gather(hull string, rd *compiler.Reader) (*compiler.Gathered, error) {
 	switch {
 	case s.Rev != nil:
-		r, d, err = compiler.CompileFrom(hull, s.Rev.Source)
-		if err == nil {
-			attach(r, Facts{Revision: s.Rev.Commit, Time: s.Rev.Time})
-		}
-	case facts:
-		r, d, err = Compile(hullDir(s.Dir, hull))
-	default:
-		r, d, err = compiler.Compile(hullDir(s.Dir, hull))
+		return compiler.GatherFS(s.Rev.FS(), hull, s.Rev.Label())
+	case rd != nil:
+		return rd.Gather(hullDir(s.Dir, hull))
 	}
-	if r != nil {
-		r.Design.Path = hull
-	}
-	return r, d, err
+	return compiler.Gather(hullDir(s.Dir, hull))
 }
 
 // DiffYard compares every hull of a yard between two sides, compiling as
@@ -85,7 +81,8 @@ func DiffYard(base, head Side, opts Options) (*result.YardDelta, error) {
 			same[i] = bErr == nil && hErr == nil && bHash == hHash
 		}
 	}
-	run := opts.run()
+	run, done := opts.Runner()
+	defer done()
 	deltas := make([]result.HullDelta, len(names))
 	taken := make([][]result.SharedChange, len(names))
 	each(len(names), opts, func(i int) {

@@ -32,7 +32,8 @@ func Fleet(root string, hulls []string, opts Options) ([]result.FleetLine, map[s
 	out := make([]result.FleetLine, len(hulls))
 	kept := map[string]*result.Result{}
 	var mu sync.Mutex
-	run := opts.run()
+	run, done := opts.Runner()
+	defer done()
 	each(len(hulls), opts, func(i int) {
 		want := WantLine
 		keep := opts.Keep != nil && opts.Keep(hulls[i])
@@ -40,15 +41,7 @@ func Fleet(root string, hulls []string, opts Options) ([]result.FleetLine, map[s
 			want = WantResult
 		}
 		c := run(Side{Dir: root}, hulls[i], want)
-		switch {
-		case !c.OK():
-			out[i] = result.FleetLine{Path: hulls[i], Problems: c.Problems, LowestSoC: -1}
-		case c.Line != nil:
-			out[i] = *c.Line
-			out[i].Path = hulls[i]
-		default:
-			out[i] = result.FleetLineOf(hulls[i], c.Result)
-		}
+		out[i] = fleetLine(hulls[i], c)
 		if keep && c.Result != nil {
 			mu.Lock()
 			kept[hulls[i]] = c.Result

@@ -5,6 +5,7 @@ import (
 	"bytes"
 	"fmt"
 	"io"
+	"io/fs"
 	"path"
 	"path/filepath"
 	"strconv"
@@ -112,6 +113,12 @@ func ReadRevision(moduleDir, rev string) (*Revision, error) {
 	rv.Time = commitTime(topDir, hash)
 	return rv, nil
 }
+
+// FS is the revision's module as a file system.
+func (r *Revision) FS() fs.FS { return r.Source.FS() }
+
+// Label prefixes the revision's file names in messages.
+func (r *Revision) Label() string { return r.Source.Label }
 
 // DefaultBase is the revision a diff starts from when none is given: the
 // merge base of HEAD with the default branch (origin/HEAD, main or master),
