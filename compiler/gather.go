@@ -30,21 +30,31 @@ import (
 // turn their bytes into U+FFFD, and each is an input error at its first
 // bad byte.
 func gather(fsys fs.FS, dir, label string) (files map[string][]byte, notUTF8 []string, err error) {
+	g, err := gatherAll(fsys, dir, label)
+	if err != nil {
+		return nil, nil, err
+	}
+	return g.files, g.notUTF8, nil
+}
+
+// gatherAll is gather, giving the gatherer: its files and the directories
+// it read them from.
+func gatherAll(fsys fs.FS, dir, label string) (*gatherer, error) {
 	g := &gatherer{fsys: fsys, files: map[string][]byte{}, dirs: map[string]bool{}, pkgs: map[string]bool{}}
 	mod, err := g.optional(modFile)
 	if err != nil {
-		return nil, nil, err
+		return nil, err
 	}
 	if mod != nil {
 		g.modPath = modulePath(mod)
 		// cue/load would read the replacements' directories, which may lie
 		// anywhere on the host.
 		if _, err := fs.Stat(fsys, localModFile); err == nil || !errors.Is(err, fs.ErrNotExist) {
-			return nil, nil, fmt.Errorf("%s%s: module replacements are not supported; ampwright reads nothing outside the design's module", label, localModFile)
+			return nil, fmt.Errorf("%s%s: module replacements are not supported; ampwright reads nothing outside the design's module", label, localModFile)
 		}
 	}
 	if err := g.dirFiles(vendoredDir); err != nil {
-		return nil, nil, err
+		return nil, err
 	}
 	queue := []string{dir}
 	for len(queue) > 0 {
@@ -52,12 +62,12 @@ func gather(fsys fs.FS, dir, label string) (files map[string][]byte, notUTF8 []s
 		queue = queue[1:]
 		imports, err := g.pkg(d)
 		if err != nil {
-			return nil, nil, err
+			return nil, err
 		}
 		queue = append(queue, imports...)
 	}
 	sort.Strings(g.notUTF8)
-	return g.files, g.notUTF8, nil
+	return g, nil
 }
 
 // modulePaths remembers the module path of each module file read: parsing
@@ -102,6 +112,19 @@ type gatherer struct {
 	dirs    map[string]bool // directories whose files are read
 	pkgs    map[string]bool // package directories whose imports are followed
 	notUTF8 []string        // files that are not UTF-8 text
+}
+
+// dirList lists the directories the gatherer read, with cue.mod, which
+// holds the module file, sorted.
+func (g *gatherer) dirList() []string {
+	out := []string{"cue.mod"}
+	for d := range g.dirs {
+		if d != "cue.mod" {
+			out = append(out, d)
+		}
+	}
+	sort.Strings(out)
+	return out
 }
 
 // optional reads a file that may be missing.

@@ -38,6 +38,7 @@ type Gathered struct {
 	files   map[string][]byte   // by slash path relative to the module root
 	digests map[string][32]byte // the files' SHA-256, as keyed
 	notUTF8 []string
+	dirs    []string // the directories the files were read from
 }
 
 // Gather reads the files of the design in dir on disk through the guard,
@@ -52,13 +53,22 @@ func Gather(dir string) (*Gathered, error) {
 // label prefixes file names in messages.
 func GatherFS(fsys fs.FS, dir, label string) (*Gathered, error) {
 	rel := path.Clean(filepath.ToSlash(dir))
-	files, notUTF8, err := gather(fsys, rel, label)
+	ga, err := gatherAll(fsys, rel, label)
 	if err != nil {
 		return nil, err
 	}
-	g := &Gathered{Dir: dir, Label: label, rel: rel, files: files, notUTF8: notUTF8}
+	g := &Gathered{Dir: dir, Label: label, rel: rel, files: ga.files, notUTF8: ga.notUTF8, dirs: ga.dirList()}
 	g.Key = g.key(nil)
 	return g, nil
+}
+
+// GatherError is the error Compile reports for the design when Gather or
+// GatherFS fails with err.
+func GatherError(err error) error {
+	if verr := checkVirtualBase(); verr != nil {
+		err = verr
+	}
+	return ErrorList{{Msg: unvirtual(err.Error())}}
 }
 
 // Read returns a gathered file by its slash path relative to the module
@@ -67,6 +77,14 @@ func (g *Gathered) Read(rel string) ([]byte, bool) {
 	b, ok := g.files[rel]
 	return b, ok
 }
+
+// Dirs are the directories of the module the files were read from, as
+// slash paths relative to its root, sorted: those that hold the design's
+// package, its parents, and the packages it imports (whether or not they
+// exist), the vendored schema's and cue.mod. A design whose Dirs hold the
+// same .cue files compiles to the same result; a change anywhere else in
+// the module cannot change it.
+func (g *Gathered) Dirs() []string { return g.dirs }
 
 // Digest returns the SHA-256 of a gathered file, by its slash path
 // relative to the module root.
@@ -182,16 +200,16 @@ func gatherDisk(dir string, r *Reader) (*Gathered, error) {
 		mf := &memoFS{m: m, own: rel}
 		fsys, digest = mf, mf.digest
 	}
-	files, notUTF8, err := gather(fsys, rel, label)
+	ga, err := gatherAll(fsys, rel, label)
 	if err != nil {
 		return nil, err
 	}
 	if r != nil {
-		if err := withinTotals(files); err != nil {
+		if err := withinTotals(ga.files); err != nil {
 			return nil, err
 		}
 	}
-	g := &Gathered{Dir: dir, Root: root, Label: label, rel: rel, files: files, notUTF8: notUTF8}
+	g := &Gathered{Dir: dir, Root: root, Label: label, rel: rel, files: ga.files, notUTF8: ga.notUTF8, dirs: ga.dirList()}
 	g.Key = g.key(digest)
 	return g, nil
 }

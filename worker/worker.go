@@ -116,6 +116,7 @@ func compile(req Request, revs *revisions, ch *cache.Cache) yard.Compiled {
 }
 
 // revisions keeps the last revisions a worker read: a diff asks for two.
+// Each reads its files from git when first asked for them.
 type revisions struct {
 	keys [2]string
 	revs [2]*yard.Revision
@@ -129,9 +130,12 @@ func (r *revisions) get(dir, rev string) (*yard.Revision, error) {
 			return r.revs[i], nil
 		}
 	}
-	rv, err := yard.ReadRevision(dir, rev)
+	rv, err := yard.ReadCommit(dir, rev)
 	if err != nil {
 		return nil, err
+	}
+	if old := r.revs[r.next]; old != nil {
+		old.Close()
 	}
 	r.keys[r.next], r.revs[r.next] = key, rv
 	r.next = (r.next + 1) % len(r.keys)

@@ -28,6 +28,7 @@ func BenchmarkDiffYard(b *testing.B) {
 		if _, err := DiffYard(Side{Name: "HEAD", Rev: rev}, Side{Name: "work tree", Dir: yard}, Options{}); err != nil {
 			b.Fatal(err)
 		}
+		rev.Close()
 	}
 }
 
@@ -64,4 +65,39 @@ func BenchmarkFleetWarm(b *testing.B) {
 func mustFleet(b *testing.B, yard string, hulls []string, opts Options) []result.FleetLine {
 	lines, _ := Fleet(yard, hulls, opts)
 	return lines
+}
+
+// BenchmarkDiffCompare measures what a diff does before it compiles
+// anything, between the yard of $AMPWRIGHT_BENCH_YARD at HEAD and its work
+// tree: reading the revision's tree, listing both sides' hulls, and
+// finding the hulls whose inputs changed.
+func BenchmarkDiffCompare(b *testing.B) {
+	yard := os.Getenv("AMPWRIGHT_BENCH_YARD")
+	if yard == "" {
+		b.Skip("set AMPWRIGHT_BENCH_YARD to a yard in a git work tree")
+	}
+	for b.Loop() {
+		rev, err := ReadRevision(yard, "HEAD")
+		if err != nil {
+			b.Fatal(err)
+		}
+		cmp := newComparison(Side{Rev: rev}, Side{Dir: yard})
+		head, err := Hulls(yard, nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		changed := 0
+		for range cmp.baseHulls(head) {
+		}
+		for _, h := range head {
+			if !cmp.unchanged(h) {
+				changed++
+			}
+		}
+		if changed == 0 {
+			b.Fatal("change a hull of the yard first")
+		}
+		cmp.close()
+		rev.Close()
+	}
 }

@@ -19,7 +19,7 @@ type Side struct {
 
 func (s Side) hulls() ([]string, error) {
 	if s.Rev != nil {
-		return Hulls("", s.Rev.Source)
+		return hullsIn(s.Rev.FS())
 	}
 	return Hulls(s.Dir, nil)
 }
@@ -27,7 +27,11 @@ func (s Side) hulls() ([]string, error) {
 // compile compiles a hull of the side, without git's facts.
 func (s Side) compile(hull string) (*result.Result, *compiler.Design, error) {
 	if s.Rev != nil {
-		return compiler.CompileFrom(hull, s.Rev.Source)
+		g, err := s.gather(hull, nil)
+		if err != nil {
+			return nil, nil, compiler.GatherError(err)
+		}
+		return g.Compile()
 	}
 	return compiler.Compile(hullDir(s.Dir, hull))
 }
@@ -46,15 +50,22 @@ func (s Side) gather(hull string, rd *compiler.Reader) (*compiler.Gathered, erro
 
 // DiffYard compares every hull of a yard between two sides, compiling as
 // opts says. A hull whose inputs are the same on both sides (its own files
-// and everything it imports, catalog and rulebook included, found by
-// quickHasher) is listed as unchanged without being compiled.
+// and everything it imports, catalog and rulebook included: see
+// comparison) is listed as unchanged without being compiled. A base read
+// from git is read only where it differs from the head: its hulls are
+// listed from the head's where their directories are the same, and a
+// hull's files are read from git only to compile it.
 func DiffYard(base, head Side, opts Options) (*result.YardDelta, error) {
-	bh, err := base.hulls()
+	cmp := newComparison(base, head)
+	defer cmp.close()
+	hh, err := head.hulls()
 	if err != nil {
 		return nil, err
 	}
-	hh, err := head.hulls()
-	if err != nil {
+	var bh []string
+	if base.Rev != nil {
+		bh = cmp.baseHulls(hh)
+	} else if bh, err = base.hulls(); err != nil {
 		return nil, err
 	}
 	at := map[string][2]bool{}
@@ -69,16 +80,11 @@ func DiffYard(base, head Side, opts Options) (*result.YardDelta, error) {
 		at[h] = v
 	}
 	yd := &result.YardDelta{Base: base.Name, Head: head.Name, Hulls: []result.HullDelta{}}
-	bq, hq := newQuickHasher(base), newQuickHasher(head)
-	// The quick hashes first, in this goroutine: the hashers cache
-	// directories and are not safe for concurrent use.
 	names := schema.Names(at)
 	same := make([]bool, len(names))
 	for i, hull := range names {
 		if sides := at[hull]; sides[0] && sides[1] {
-			bHash, bErr := bq.Hash(hull)
-			hHash, hErr := hq.Hash(hull)
-			same[i] = bErr == nil && hErr == nil && bHash == hHash
+			same[i] = cmp.unchanged(hull)
 		}
 	}
 	run, done := opts.Runner()
@@ -99,7 +105,17 @@ func DiffYard(base, head Side, opts Options) (*result.YardDelta, error) {
 		case same[i]:
 			deltas[i] = result.HullDelta{Path: hull, State: result.HullUnchanged}
 		default:
-			deltas[i], taken[i] = diffHull(run(base, hull, WantInputs), run(head, hull, WantInputs), hull)
+			// The two sides at once: a diff of one changed hull takes
+			// the time of one compile, given two cores.
+			var b Compiled
+			done := make(chan struct{})
+			go func() {
+				defer close(done)
+				b = run(base, hull, WantInputs)
+			}()
+			h := run(head, hull, WantInputs)
+			<-done
+			deltas[i], taken[i] = diffHull(b, h, hull)
 		}
 	})
 	yd.Hulls = deltas

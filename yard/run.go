@@ -100,8 +100,7 @@ func build(s Side, hull string, want Want, c *cache.Cache, g *compiler.Gathered)
 		out.Result = r
 	case WantInputs:
 		out.Result = r
-		out.Inputs = d.Inputs()
-		out.Entries, out.Own = origins(d, out.Inputs)
+		out.Inputs, out.Entries, out.Own = d.InputOrigins()
 		out.Review = d.Rules.Review
 		store(c, g, kindInputs, Compiled{Inputs: out.Inputs, Entries: out.Entries, Own: out.Own, Review: out.Review})
 	}

@@ -143,12 +143,14 @@ func runDiff(opts *diffOptions, args []string) error {
 		if err != nil {
 			return &exitError{code: exitInput, err: err}
 		}
+		defer src.Close()
 		base = yard.Side{Name: rev, Rev: src}
 		if opts.head != "" {
 			hsrc, err := yard.ReadRevision(root, opts.head)
 			if err != nil {
 				return &exitError{code: exitInput, err: err}
 			}
+			defer hsrc.Close()
 			head = yard.Side{Name: opts.head, Rev: hsrc}
 		} else {
 			head = yard.Side{Name: "work tree", Dir: root}

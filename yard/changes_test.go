@@ -1,0 +1,126 @@
+package yard
+
+import (
+	"os"
+	"os/exec"
+	"path/filepath"
+	"reflect"
+	"testing"
+)
+
+// twoHulls is a module of two hulls, one importing a catalog.
+var twoHulls = map[string]string{
+	"cue.mod/module.cue": "module: \"q.example/yard\"\nlanguage: version: \"v0.13.0\"\n",
+	"catalog/c.cue":      "package catalog\nx: 1\n",
+	"other/o.cue":        "package other\ny: 1\n",
+	"hulls/a/a.cue":      "package a\nimport \"q.example/yard/catalog\"\nimport \"list\"\nvessel: {}\nv: catalog.x\nw: list.Sum([1])\n",
+	"hulls/b/b.cue":      "package b\nvessel: {}\nv: 2\n",
+}
+
+// comparisonSteps are changes to a yard and which hulls each leaves
+// unchanged; each step applies to the yard as the steps before left it.
+var comparisonSteps = []struct {
+	name   string
+	change func(t *testing.T, dir string)
+	same   map[string]bool
+}{
+	{"nothing", func(*testing.T, string) {}, map[string]bool{"hulls/a": true, "hulls/b": true}},
+	{"a package neither imports", func(t *testing.T, dir string) { write(t, dir, "other/o.cue", "package other\ny: 2\n") }, map[string]bool{"hulls/a": true, "hulls/b": true}},
+	{"a file that is not CUE", func(t *testing.T, dir string) { write(t, dir, "hulls/a/notes.txt", "x") }, map[string]bool{"hulls/a": true, "hulls/b": true}},
+	{"the catalog a imports", func(t *testing.T, dir string) { write(t, dir, "catalog/c.cue", "package catalog\nx: 2\n") }, map[string]bool{"hulls/a": false, "hulls/b": true}},
+	{"a file added to the catalog", func(t *testing.T, dir string) { write(t, dir, "catalog/d.cue", "package catalog\n") }, map[string]bool{"hulls/a": false, "hulls/b": true}},
+	{"a file removed from the catalog", func(t *testing.T, dir string) { remove(t, dir, "catalog/c.cue") }, map[string]bool{"hulls/a": false, "hulls/b": true}},
+	{"a new file in b", func(t *testing.T, dir string) { write(t, dir, "hulls/b/more.cue", "package b\n") }, map[string]bool{"hulls/a": true, "hulls/b": false}},
+	{"a file in the hulls' parent", func(t *testing.T, dir string) { write(t, dir, "hulls/p.cue", "package b\n") }, map[string]bool{"hulls/a": false, "hulls/b": false}},
+	{"a file at the module root", func(t *testing.T, dir string) { write(t, dir, "root.cue", "package a\n") }, map[string]bool{"hulls/a": false, "hulls/b": false}},
+	{"the module file", func(t *testing.T, dir string) {
+		write(t, dir, "cue.mod/module.cue", "module: \"q.example/yard\"\nlanguage: version: \"v0.14.0\"\n")
+	}, map[string]bool{"hulls/a": false, "hulls/b": false}},
+	{"a link in a hull's directory", func(t *testing.T, dir string) {
+		if err := os.Symlink("../a/a.cue", filepath.Join(dir, "hulls/b/link.cue")); err != nil {
+			t.Skip(err)
+		}
+	}, map[string]bool{"hulls/a": true, "hulls/b": false}},
+}
+
+func remove(t *testing.T, dir, rel string) {
+	t.Helper()
+	if err := os.Remove(filepath.Join(dir, filepath.FromSlash(rel))); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// TestComparisonDirectories: between two directories, a hull is unchanged
+// when the directories its files are read from hold the same .cue files,
+// and changed by an edit to its own files, to what it imports, to a
+// parent's files or to the module file.
+func TestComparisonDirectories(t *testing.T) {
+	for i, step := range comparisonSteps {
+		t.Run(step.name, func(t *testing.T) {
+			base, head := t.TempDir(), t.TempDir()
+			for rel, s := range twoHulls {
+				write(t, base, rel, s)
+				write(t, head, rel, s)
+			}
+			step.change(t, head)
+			cmp := newComparison(Side{Dir: base}, Side{Dir: head})
+			defer cmp.close()
+			for hull, want := range step.same {
+				if got := cmp.unchanged(hull); got != want {
+					t.Errorf("step %d: %s unchanged = %v, want %v", i, hull, got, want)
+				}
+			}
+		})
+	}
+}
+
+// TestComparisonRevision: a revision against its work tree, step by
+// step: the same answers as between directories, the base's hulls listed
+// as reading them all would list them, and no file read from git for a
+// directory the work tree has not changed.
+func TestComparisonRevision(t *testing.T) {
+	dir := gitRepo(t, twoHulls)
+	for i, step := range comparisonSteps {
+		step.change(t, dir)
+		rv, err := ReadRevision(dir, "HEAD")
+		if err != nil {
+			t.Fatal(err)
+		}
+		cmp := newComparison(Side{Rev: rv}, Side{Dir: dir})
+		for hull, want := range step.same {
+			if got := cmp.unchanged(hull); got != want {
+				t.Errorf("step %d (%s): %s unchanged = %v, want %v", i, step.name, hull, got, want)
+			}
+		}
+		head, err := Hulls(dir, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := cmp.baseHulls(head)
+		read := len(rv.cache)
+		want, err := hullsIn(rv.FS())
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !reflect.DeepEqual(got, want) {
+			t.Errorf("step %d (%s): base hulls %v, want %v", i, step.name, got, want)
+		}
+		if step.name == "nothing" && read != 0 {
+			t.Errorf("an unchanged work tree read %d files from git", read)
+		}
+		cmp.close()
+		rv.Close()
+		commit(t, dir)
+	}
+}
+
+// commit commits everything in the work tree.
+func commit(t *testing.T, dir string) {
+	t.Helper()
+	for _, args := range [][]string{{"add", "-A"}, {"commit", "-q", "--allow-empty", "-m", "step"}} {
+		cmd := exec.Command("git", append([]string{"-C", dir, "-c", "user.name=t", "-c", "user.email=t@example.invalid", "-c", "commit.gpgsign=false"}, args...)...)
+		if out, err := cmd.CombinedOutput(); err != nil {
+			t.Fatalf("git %v: %v\n%s", args, err, out)
+		}
+	}
+}
