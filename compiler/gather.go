@@ -96,6 +96,12 @@ const (
 	localModFile = "cue.mod/local-module.cue"
 )
 
+// cueLister is a file system that lists a directory's .cue entries alone
+// (guardFS).
+type cueLister interface {
+	cueEntries(dir string) ([]fs.DirEntry, error)
+}
+
 // importMemo is a file system that remembers the imports of the files it
 // keeps (memoFS): the catalog's, read for every hull of a fleet.
 type importMemo interface {
@@ -190,7 +196,13 @@ func (g *gatherer) dirFiles(d string) error {
 		return nil
 	}
 	g.dirs[d] = true
-	entries, err := fs.ReadDir(g.fsys, d)
+	var entries []fs.DirEntry
+	var err error
+	if l, ok := g.fsys.(cueLister); ok {
+		entries, err = l.cueEntries(d)
+	} else {
+		entries, err = fs.ReadDir(g.fsys, d)
+	}
 	if errors.Is(err, fs.ErrNotExist) {
 		return nil
 	}

@@ -305,15 +305,17 @@ func (f *memoFS) Open(name string) (fs.File, error) { return f.m.g.Open(name) }
 
 func (f *memoFS) Stat(name string) (fs.FileInfo, error) { return f.m.g.Stat(name) }
 
-func (f *memoFS) ReadDir(name string) ([]fs.DirEntry, error) {
+func (f *memoFS) ReadDir(name string) ([]fs.DirEntry, error) { return f.m.g.ReadDir(name) }
+
+func (f *memoFS) cueEntries(name string) ([]fs.DirEntry, error) {
 	if name == f.own {
-		return f.m.g.ReadDir(name)
+		return f.m.g.cueEntries(name)
 	}
 	f.m.mu.Lock()
 	defer f.m.mu.Unlock()
 	d, ok := f.m.dirs[name]
 	if !ok {
-		d.entries, d.err = f.m.g.ReadDir(name)
+		d.entries, d.err = f.m.g.cueEntries(name)
 		f.m.dirs[name] = d
 	}
 	return d.entries, d.err
