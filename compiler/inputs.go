@@ -33,13 +33,18 @@ func (d *Design) InputOrigins() (inputs, entries map[string]string, own map[stri
 func (d *Design) eachInput(f func(p string, v cue.Value)) {
 	var walk func(v cue.Value)
 	walk = func(v cue.Value) {
-		if it, err := v.Fields(); err == nil {
-			for it.Next() {
-				walk(it.Value())
+		kind := v.IncompleteKind()
+		// Fields of a value that is not a struct is an error, and an
+		// error costs more than asking.
+		if kind&cue.StructKind != 0 {
+			if it, err := v.Fields(); err == nil {
+				for it.Next() {
+					walk(it.Value())
+				}
+				return
 			}
-			return
 		}
-		if elems := elements(v); v.IncompleteKind() == cue.ListKind {
+		if elems := elements(v); kind == cue.ListKind {
 			for _, e := range elems {
 				walk(e)
 			}

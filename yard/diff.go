@@ -81,12 +81,6 @@ func DiffYard(base, head Side, opts Options) (*result.YardDelta, error) {
 	}
 	yd := &result.YardDelta{Base: base.Name, Head: head.Name, Hulls: []result.HullDelta{}}
 	names := schema.Names(at)
-	same := make([]bool, len(names))
-	for i, hull := range names {
-		if sides := at[hull]; sides[0] && sides[1] {
-			same[i] = cmp.unchanged(hull)
-		}
-	}
 	run, done := opts.Runner()
 	defer done()
 	deltas := make([]result.HullDelta, len(names))
@@ -102,7 +96,9 @@ func DiffYard(base, head Side, opts Options) (*result.YardDelta, error) {
 			}
 		case !sides[0]:
 			deltas[i] = headOnly(run(head, hull, WantResult), hull)
-		case same[i]:
+		case cmp.unchanged(hull):
+			// Found here rather than before the loop, so that the first
+			// changed hull is compiling while the others are compared.
 			deltas[i] = result.HullDelta{Path: hull, State: result.HullUnchanged}
 		default:
 			// The two sides at once: a diff of one changed hull takes
