@@ -1,10 +1,13 @@
 package yard
 
 import (
+	"errors"
+	"io/fs"
 	"os"
 	"os/exec"
 	"path/filepath"
 	"reflect"
+	"strings"
 	"testing"
 )
 
@@ -122,5 +125,68 @@ func commit(t *testing.T, dir string) {
 		if out, err := cmd.CombinedOutput(); err != nil {
 			t.Fatalf("git %v: %v\n%s", args, err, out)
 		}
+	}
+}
+
+// TestRevisionFS: a revision's files are read from git when opened, under
+// the rules of the work tree: a link is followed to a .cue file of the
+// module, and refused, with why, when it leads out, is absolute, loops or
+// leads to no .cue file; a file over the size limit is refused unread.
+func TestRevisionFS(t *testing.T) {
+	dir := gitRepo(t, map[string]string{
+		"cue.mod/module.cue": "module: \"r.example/yard\"\n",
+		"hulls/a/a.cue":      "package a\nvessel: {}\n",
+		"hulls/a/notes.txt":  "not CUE\n",
+		"hulls/b/big.cue":    "package b\n" + strings.Repeat("// padding\n", 5<<20/11+1),
+	})
+	for link, target := range map[string]string{
+		"hulls/b/in.cue":    "../a/a.cue",
+		"hulls/b/out.cue":   "../../../outside.cue",
+		"hulls/b/abs.cue":   "/etc/passwd",
+		"hulls/b/loop1.cue": "loop2.cue",
+		"hulls/b/loop2.cue": "loop1.cue",
+		"hulls/b/nocue.cue": "../a/notes.txt",
+		"hulls/b/tobig.cue": "big.cue",
+	} {
+		if err := os.Symlink(target, filepath.Join(dir, link)); err != nil {
+			t.Skip(err)
+		}
+	}
+	commit(t, dir)
+	rv, err := ReadRevision(dir, "HEAD")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer rv.Close()
+	fsys := rv.FS()
+	if b, err := fs.ReadFile(fsys, "hulls/b/in.cue"); err != nil || string(b) != "package a\nvessel: {}\n" {
+		t.Errorf("a link inside the module: %q, %v", b, err)
+	}
+	for name, want := range map[string]string{
+		"hulls/b/out.cue":   "leads outside the module",
+		"hulls/b/abs.cue":   "absolute target",
+		"hulls/b/loop1.cue": "in a loop",
+		"hulls/b/nocue.cue": "to no .cue file",
+		"hulls/b/tobig.cue": "to no .cue file",
+		"hulls/b/big.cue":   "more than the 4194304-byte limit",
+	} {
+		_, err := fs.ReadFile(fsys, name)
+		if err == nil || !strings.Contains(err.Error(), want) || !strings.HasPrefix(err.Error(), rv.Label()+name+" ") {
+			t.Errorf("%s: %v, want %q after the file's name", name, err, want)
+		}
+	}
+	entries, err := fs.ReadDir(fsys, "hulls/a")
+	if err != nil || len(entries) != 1 || entries[0].Name() != "a.cue" {
+		t.Errorf("hulls/a lists %v, %v: want its one .cue file", entries, err)
+	}
+	if _, err := fs.ReadDir(fsys, "hulls/none"); !errors.Is(err, fs.ErrNotExist) {
+		t.Errorf("a directory not in the revision: %v", err)
+	}
+	hulls, err := hullsIn(fsys)
+	if err != nil || !reflect.DeepEqual(hulls, []string{"hulls/a", "hulls/b"}) {
+		t.Errorf("hulls %v, %v", hulls, err)
+	}
+	if len(rv.cache) > 8 {
+		t.Errorf("%d objects read", len(rv.cache))
 	}
 }

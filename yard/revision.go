@@ -190,27 +190,6 @@ func (r *Revision) index() {
 	}
 }
 
-// Source reads every .cue file of the revision into memory.
-func (r *Revision) Source() (*compiler.Source, error) {
-	src := &compiler.Source{Files: map[string][]byte{}, Bad: map[string]string{}, Label: r.label}
-	for p, why := range r.bad {
-		src.Bad[p] = why
-	}
-	for p := range r.files {
-		b, err := r.readFile(p)
-		if err != nil {
-			var rf *refused
-			if errors.As(err, &rf) {
-				src.Bad[p] = rf.why
-				continue
-			}
-			return nil, err
-		}
-		src.Files[p] = b
-	}
-	return src, nil
-}
-
 // refused is a file of a revision that may not be read, and why: as a
 // file on disk is refused (see compiler.ModuleFS).
 type refused struct{ path, why string }
