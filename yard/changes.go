@@ -233,30 +233,86 @@ func (t *sideTree) diskDir(d string) *dirFiles {
 		return df
 	}
 	for _, e := range entries {
-		p := path.Join(d, e.Name())
-		cue := strings.HasSuffix(e.Name(), ".cue")
-		switch {
-		case e.Type()&fs.ModeSymlink != 0:
-			// A link to a .cue file, or to a directory a package or a
-			// hull may be read through; a link to another file is not
-			// read.
-			fi, err := fs.Stat(t.fsys, p)
-			if cue || err != nil || fi.IsDir() {
-				df.odd = true
-			}
-		case e.IsDir() || !cue:
-		case !e.Type().IsRegular():
-			df.odd = true
-		default:
-			b, err := fs.ReadFile(t.fsys, p)
-			if err != nil {
-				df.odd = true
-				continue
-			}
-			df.files[e.Name()] = t.object(b)
-		}
+		t.addEntry(df, d, e)
 	}
 	return df
+}
+
+// addEntry adds an entry of directory d to what d holds, reading a .cue
+// file, and reports whether it is a .cue file that declares a vessel or
+// cannot be read (what makes d a hull, as Hulls has it).
+func (t *sideTree) addEntry(df *dirFiles, d string, e fs.DirEntry) (hull bool) {
+	p := path.Join(d, e.Name())
+	cue := strings.HasSuffix(e.Name(), ".cue")
+	switch {
+	case e.Type()&fs.ModeSymlink != 0:
+		// A link to a .cue file, or to a directory a package or a hull
+		// may be read through; a link to another file is not read.
+		fi, err := fs.Stat(t.fsys, p)
+		if cue || err != nil || fi.IsDir() {
+			df.odd = true
+		}
+		if cue {
+			b, err := fs.ReadFile(t.fsys, p)
+			return err != nil || isHullFile.Match(b)
+		}
+	case e.IsDir() || !cue:
+	case !e.Type().IsRegular():
+		df.odd = true
+		return true
+	default:
+		b, err := fs.ReadFile(t.fsys, p)
+		if err != nil {
+			df.odd = true
+			return true
+		}
+		df.files[e.Name()] = t.object(b)
+		return isHullFile.Match(b)
+	}
+	return false
+}
+
+// hulls lists the hulls of a side on disk, as Hulls does, in the same walk
+// that names the contents of the directories it reads.
+func (t *sideTree) hulls() ([]string, error) {
+	if t.err != nil {
+		return nil, t.err
+	}
+	seen := map[string]bool{}
+	dirs := map[string]*dirFiles{}
+	err := fs.WalkDir(t.fsys, ".", func(p string, e fs.DirEntry, err error) error {
+		if err != nil {
+			return err
+		}
+		if e.IsDir() {
+			if p != "." && (e.Name() == "cue.mod" || strings.HasPrefix(e.Name(), ".") || e.Name() == "node_modules") {
+				return fs.SkipDir
+			}
+			dirs[p] = &dirFiles{files: map[string]string{}}
+			return nil
+		}
+		d := path.Dir(p)
+		if t.addEntry(dirs[d], d, e) {
+			seen[d] = true
+		}
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	t.mu.Lock()
+	for d, df := range dirs {
+		if _, ok := t.dirs[d]; !ok {
+			t.dirs[d] = df
+		}
+	}
+	t.mu.Unlock()
+	out := make([]string, 0, len(seen))
+	for d := range seen {
+		out = append(out, d)
+	}
+	sort.Strings(out)
+	return out, nil
 }
 
 // object names a file's contents as the other side names them: as git

@@ -99,6 +99,9 @@ func TestComparisonRevision(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
+		if walked, err := cmp.head.hulls(); err != nil || !reflect.DeepEqual(walked, head) {
+			t.Errorf("step %d (%s): the comparison's walk finds hulls %v, %v; Hulls %v", i, step.name, walked, err, head)
+		}
 		got := cmp.baseHulls(head)
 		read := len(rv.cache)
 		want, err := hullsIn(rv.FS())

@@ -58,7 +58,13 @@ func (s Side) gather(hull string, rd *compiler.Reader) (*compiler.Gathered, erro
 func DiffYard(base, head Side, opts Options) (*result.YardDelta, error) {
 	cmp := newComparison(base, head)
 	defer cmp.close()
-	hh, err := head.hulls()
+	var hh []string
+	var err error
+	if head.Rev == nil {
+		hh, err = cmp.head.hulls()
+	} else {
+		hh, err = head.hulls()
+	}
 	if err != nil {
 		return nil, err
 	}
