@@ -53,6 +53,9 @@ func Local(s Side, hull string, want Want) Compiled {
 	if err != nil {
 		return Compiled{Problems: problemsOf(err)}
 	}
+	// Everything this takes from the design's CUE value is taken below:
+	// the context it was evaluated in can take the next hull.
+	defer d.Release()
 	c := Compiled{Result: r}
 	switch want {
 	case WantLine:
