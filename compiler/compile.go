@@ -149,6 +149,11 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 func loadIn(ec *evalContext, dir string, src *Source) (*Design, error) {
 	ctx := ec.ctx
 	l, err := loadPackage(dir, src)
+	if l.src != nil {
+		for _, b := range l.src.Files {
+			ec.weight += len(b)
+		}
+	}
 	if err != nil {
 		var positioned cueerrors.Error
 		if l.inst == nil && !errors.As(err, &positioned) {

@@ -23,12 +23,19 @@ type evalContext struct {
 	schema cue.Value // the embedded schema
 	design cue.Value // its #Design
 	uses   int
+	weight int // bytes of input evaluated
 }
 
-// contextUses is how many hulls one context evaluates before it is
-// dropped: enough to pay for the schema's build many times over, few
-// enough that what it keeps stays within a worker's memory target.
-const contextUses = 4
+// A context is dropped once the designs it evaluated add up to
+// contextWeight bytes of input (what it keeps grows with them), or after
+// contextUses designs: enough to pay for the schema's build many times
+// over, little enough that what it keeps stays within a worker's memory
+// target (four hulls of a yard like cmd/yardgen's, with the catalog and
+// rulebook each imports, the vendored schema counted too).
+const (
+	contextWeight = 512 << 10
+	contextUses   = 64
+)
 
 // contexts are the contexts released and not yet used up, at most one a
 // core.
@@ -62,7 +69,7 @@ func (ec *evalContext) release() {
 		return
 	}
 	ec.uses++
-	if ec.uses >= contextUses {
+	if ec.uses >= contextUses || ec.weight >= contextWeight {
 		return
 	}
 	contexts.Lock()
