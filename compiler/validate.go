@@ -115,36 +115,29 @@ func (c *validator) walkClean(v cue.Value, s *shape) {
 	}
 }
 
-// walk visits v and everything below it. In a clean design it is the one
-// pass over the value: each quantity is checked, and the design is written
-// as JSON (c.out) for decoding, so that CUE lists each struct's fields
-// (which it sorts, at a cost) once.
+// walk visits v and everything below it in a design CUE finds errors in,
+// reporting each in the design's terms. A subtree CUE finds no error in
+// is left to walkClean, which only checks its quantities and numbers.
 func (c *validator) walk(v cue.Value) {
 	if a := v.Attribute("q"); a.Err() == nil {
 		c.quantity(v, a)
-		c.out.leaf(v)
 		return
 	}
 	if k := v.IncompleteKind(); k != cue.BottomKind && k&^cue.NumberKind == 0 && v.IsConcrete() {
 		c.number(v)
-		c.out.leaf(v)
 		return
 	}
-	if !c.clean {
-		if own := c.ownErrors(v); len(own) > 0 {
-			c.report(v, own)
-			return
-		}
+	if own := c.ownErrors(v); len(own) > 0 {
+		c.report(v, own)
+		return
+	}
+	err := v.Validate(cue.Concrete(true))
+	if err == nil {
+		c.walkClean(v, nil)
+		return
 	}
 	n := len(c.errs)
-	opts := []cue.Option{cue.All()}
-	if c.clean {
-		// No field is missing in a clean design: the regular fields are
-		// all there is to visit.
-		opts = nil
-	}
-	if it, err := v.Fields(opts...); err == nil {
-		c.out.open('{')
+	if it, ferr := v.Fields(cue.All()); ferr == nil {
 		for it.Next() {
 			sel := it.Selector()
 			if sel.LabelType() != cue.StringLabel {
@@ -157,39 +150,28 @@ func (c *validator) walk(v cue.Value) {
 				c.missing(v, sel, it.Value())
 				continue
 			}
-			c.out.key(selName(sel))
 			c.walk(it.Value())
 		}
-		c.out.close('}')
-	} else if k := v.IncompleteKind(); k == cue.ListKind || k == cue.BottomKind {
-		c.out.open('[')
+	} else {
 		for _, e := range elements(v) {
 			c.walk(e)
 		}
-		c.out.close(']')
-	} else {
-		c.out.leaf(v)
-	}
-	if c.clean {
-		return
 	}
 	// Errors CUE gives for this value that no field below reported: a
 	// field not allowed, say, can be the parent's error rather than the
 	// field's.
-	if err := v.Validate(cue.Concrete(true)); err != nil {
-		have := map[string]bool{}
-		for _, e := range c.errs[n:] {
-			have[e.Path] = true
+	have := map[string]bool{}
+	for _, e := range c.errs[n:] {
+		have[e.Path] = true
+	}
+	var rest []errors.Error
+	for _, e := range errors.Errors(err) {
+		if p := pathString(e.Path()); !have[p] && !c.quant[p] {
+			rest = append(rest, e)
 		}
-		var rest []errors.Error
-		for _, e := range errors.Errors(err) {
-			if p := pathString(e.Path()); !have[p] && !c.quant[p] {
-				rest = append(rest, e)
-			}
-		}
-		if len(rest) > 0 {
-			c.report(v, rest)
-		}
+	}
+	if len(rest) > 0 {
+		c.report(v, rest)
 	}
 }
 
