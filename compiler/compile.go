@@ -54,6 +54,11 @@ type Design struct {
 	pos map[string]token.Pos
 	// value is the design unified with the schema.
 	value cue.Value
+	// inst is the hull's package as loaded, its imports with it, and read
+	// reads its files: the catalog and a proposal's CUE are read from them
+	// (catalog.go, write.go).
+	inst *build.Instance
+	read func(string) ([]byte, error)
 }
 
 // Position returns the design's file:line:col for a CUE path such as
@@ -172,6 +177,8 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 		Rules: rules.Over(spec.Rules),
 		pos:   entryPositions(&validator{root: unified, data: data, home: inst.Dir}),
 		value: unified,
+		inst:  inst,
+		read:  l.read,
 	}
 	return d, nil
 }

@@ -214,6 +214,17 @@ type Array struct {
 	Shading        float64     `json:"shading"`
 	Soiling        float64     `json:"soiling"`
 	Mismatch       float64     `json:"mismatch"`
+	// Place is the mounting place the array sits on, where the design
+	// names one.
+	Place *Place `json:"place,omitempty"`
+}
+
+// Place is a mounting place for modules and what it takes.
+type Place struct {
+	Name       string       `json:"name,omitempty"`
+	MaxModules int          `json:"maxModules,omitempty"`
+	Length     *unit.Length `json:"length,omitempty"`
+	Width      *unit.Length `json:"width,omitempty"`
 }
 
 // Controller is a charge controller fitted to the boat.
@@ -231,12 +242,17 @@ type Charger struct {
 	Description string             `json:"description,omitempty"`
 }
 
-// Link joins two banks.
+// Link joins two banks. A design may leave its part open (Part.Kind is
+// then ""), for `ampwright propose` to choose one of Kind, if given.
 type Link struct {
 	Part LinkPart `json:"part"`
+	Kind string   `json:"kind,omitempty"`
 	From string   `json:"from"`
 	To   string   `json:"to"`
 }
+
+// Open reports whether the design leaves the link's part to be chosen.
+func (l Link) Open() bool { return l.Part.Kind == "" }
 
 // Converter feeds loads at another voltage.
 type Converter struct {
