@@ -12,7 +12,8 @@ const module = "github.com/ampwright/ampwright"
 // the project's packages, the project packages it may import. Anything not
 // listed here may not import anything of the project's.
 var allowedImports = map[string][]string{
-	"cmd/ampwright": {"yard", "compiler", "report", "result", "checks", "schema"},
+	"cmd/ampwright": {"yard", "compiler", "propose", "report", "result", "checks", "schema"},
+	"propose":       {"compiler", "checks", "energy", "model", "schema", "schema/unit", "result"},
 	"yard":          {"compiler", "result", "schema"},
 	"compiler":      {"checks", "energy", "model", "schema", "schema/unit", "result"},
 	"checks":        {"energy", "energy/solar", "model", "schema", "schema/unit", "result"},
