@@ -12,3 +12,37 @@ import (
 func BillOfMaterials(spec *schema.Design, rules schema.Rulebook, sys *model.System) *result.BOM {
 	return billOfMaterials(&Design{Spec: spec, Rules: rules}, sys)
 }
+
+// CompileOpen is Compile for `ampwright propose`, which takes designs that
+// leave parts open for it to choose (a link without a part): such a design
+// comes back loaded, with a nil result; any other design as Compile gives
+// it.
+func CompileOpen(dir string) (*result.Result, *Design, error) {
+	type both struct {
+		r *result.Result
+		d *Design
+	}
+	b, err := withTimeout(dir, DefaultLimits, func() (both, error) {
+		d, err := LoadFrom(dir, nil)
+		if err != nil {
+			return both{}, err
+		}
+		for _, l := range d.Spec.Links {
+			if l.Open() {
+				return both{nil, d}, nil
+			}
+		}
+		r, d, err := d.compile()
+		return both{r, d}, err
+	})
+	return b.r, b.d, err
+}
+
+// Identity names the design as its result does.
+func (d *Design) Identity() result.Identity {
+	v := d.Spec.Vessel
+	return result.Identity{
+		Name: v.Name, Hull: v.Hull, Kind: v.Kind, System: v.System, Path: d.Dir, InputsHash: d.Hash, Units: v.Units,
+		Length: v.Length.Text, Client: v.Client, Yard: v.Yard, Designer: v.Designer, Checker: v.Checker, Approver: v.Approver,
+	}
+}

@@ -137,9 +137,7 @@ func (d *Design) Rewrite(spec *schema.Design, cat *schema.Catalog, ref CatalogRe
 
 	var out bytes.Buffer
 	if header != "" {
-		for _, l := range strings.Split(strings.TrimRight(header, "\n"), "\n") {
-			out.WriteString(strings.TrimRight("// "+l, " ") + "\n")
-		}
+		writeComment(&out, header, "")
 		if lead.Len() > 0 {
 			out.WriteString("//\n")
 		}
@@ -220,9 +218,30 @@ type emitter struct {
 
 func (e *emitter) note(b *bytes.Buffer, p string) {
 	if n := e.notes[p]; n != "" {
-		for _, l := range strings.Split(n, "\n") {
-			b.WriteString(strings.TrimRight("// "+l, " ") + "\n")
+		writeComment(b, n, "  ")
+	}
+}
+
+// commentWidth is where comment lines are wrapped.
+const commentWidth = 76
+
+// writeComment writes text as // lines, each of its lines wrapped at
+// commentWidth, the continuation lines indented by indent.
+func writeComment(b *bytes.Buffer, text, indent string) {
+	for _, l := range strings.Split(strings.TrimRight(text, "\n"), "\n") {
+		line := ""
+		for _, w := range strings.Fields(l) {
+			if line != "" && len(line)+1+len(w) > commentWidth {
+				b.WriteString("// " + line + "\n")
+				line = indent
+			}
+			if line == "" || line == indent {
+				line += w
+			} else {
+				line += " " + w
+			}
 		}
+		b.WriteString(strings.TrimRight("// "+line, " ") + "\n")
 	}
 }
 

@@ -245,7 +245,7 @@ func (c *completer) smallest(in *checks.Input, r *model.Run) sized {
 		return z
 	}
 	std := c.standardSizes(r.Spec.Size)
-	z := sized{size: r.Spec.Size}
+	z := sized{size: r.Spec.Size, cable: r.Spec.Cable}
 	if len(std) > 0 {
 		orig := r.Spec.Size
 		r.Spec.Size = std[0]
@@ -418,10 +418,32 @@ func (c *completer) light(spec *schema.Design) (*schema.Design, *model.System, e
 		setSize(out, r, c.smallest(in, r))
 	}
 	for _, r := range sys.Runs {
-		setSize(out, r, c.smallest(in, r))
+		z := c.smallest(in, r)
+		// A run whose return travels on a negative conductor too thin for
+		// its drop passes once that conductor is larger.
+		for v := r.Ret.Via; !z.ok && v != nil; {
+			next, ok := c.larger(v)
+			if !ok {
+				break
+			}
+			setSize(out, v, next)
+			z = c.smallest(in, r)
+		}
+		setSize(out, r, z)
 	}
 	c.stringFuses(out, nil)
 	return out, sys, nil
+}
+
+// larger is the next standard size above run r's present one that the
+// catalog sells (for a run cut from catalog cable).
+func (c *completer) larger(r *model.Run) (sized, bool) {
+	for _, z := range c.sizesFrom(r, r.Spec.Size, c.designerRun(r.Name)) {
+		if z.size.MM2() > r.Spec.Size.MM2()*(1+1e-9) {
+			return z, true
+		}
+	}
+	return sized{}, false
 }
 
 // floors are what a part must at least have: raised by the checks a
@@ -521,11 +543,18 @@ func (c *completer) device(sys *model.System, r *model.Run, like *schema.Protect
 }
 
 // busFamily reports whether catalog part p may serve as the part of a bus
-// of kind: a panel or fuse block takes a part with ways; a switch a part
-// of the designer's studs and no ways (the catalog does not say which
-// parts switch, so a switch keeps its shape); a busbar a part without
-// ways that is not a two-stud switch.
+// of kind ("negative" for a negative bus), whose designer fitted like.
+// Where the catalog gives its parts' kinds, a part of the bus's kind or of
+// the designer's part's; else by shape: a panel or fuse block takes a part
+// with ways, a switch a part of the designer's studs and no ways, a
+// busbar a part without ways that is not a two-stud switch.
 func busFamily(kind string, like *schema.Busbar, p schema.Busbar) bool {
+	if kind == "negative" {
+		kind = "negative-bus"
+	}
+	if p.Kind != "" || (like != nil && like.Kind != "") {
+		return p.Kind == kind || (like != nil && like.Kind != "" && p.Kind == like.Kind)
+	}
 	switch kind {
 	case "panel", "fuse-block":
 		return p.Ways > 0
@@ -645,6 +674,13 @@ func (c *completer) fit(out *schema.Design, sys *model.System, st *state) []stri
 			likeDev = like.Protection
 		}
 		d, ok := c.device(sys, r, likeDev, st.dev[r.Name])
+		// No device fits the window at this size: a larger conductor
+		// widens it.
+		for opts := c.sizesFrom(r, st.start[r.Name], c.designerRun(r.Name)); !ok && st.bumps[r.Name]+1 < len(opts); {
+			st.bumps[r.Name]++
+			setSize(out, r, opts[st.bumps[r.Name]])
+			d, ok = c.device(sys, r, likeDev, st.dev[r.Name])
+		}
 		if !ok {
 			noDevice = append(noDevice, r.Name)
 			continue
@@ -715,7 +751,41 @@ func (c *completer) raise(sys *model.System, st *state, last []result.Finding, n
 	}
 	for _, f := range last {
 		switch f.ID {
-		case result.CheckVoltageDrop, result.CheckAmpacity, result.CheckMinimumSize, result.CheckProtected:
+		case result.CheckVoltageDrop:
+			// The larger loss of the run's own conductor and the negative
+			// conductor its return travels on.
+			r := sys.Run(f.Subject)
+			if r != nil && r.Ret.Via != nil {
+				d := sys.RunDrop(r, r.Spec.Size)
+				if d.RetCurrent*d.RetLength*d.RetRes.RT > r.DropCurrent*r.Spec.Length.Metres()*d.Res.RT {
+					bump(r.Ret.Via.Name)
+					continue
+				}
+			}
+			bump(f.Subject)
+		case result.CheckProtected:
+			// The device upstream must be at most the ratio of this run's
+			// ampacity: the smallest size that carries it.
+			r := sys.Run(f.Subject)
+			up := r
+			for up != nil && up.Spec.Protection == nil {
+				up = up.Parent
+			}
+			if r == nil || up == nil || up == r {
+				bump(f.Subject)
+				continue
+			}
+			need := up.Spec.Protection.Rating.Amps() / c.rules.Protection.Ratio
+			opts := c.sizesFrom(r, st.start[r.Name], c.designerRun(r.Name))
+			for i := st.bumps[r.Name] + 1; i < len(opts); i++ {
+				if a := sys.RunAmpacity(r, opts[i].size); a.OK && a.Derated >= need-1e-9 {
+					st.bumps[r.Name] = i
+					bumped[r.Name], changed = true, true
+					break
+				}
+			}
+			bump(f.Subject)
+		case result.CheckAmpacity, result.CheckMinimumSize:
 			bump(f.Subject)
 		case result.CheckRating:
 			r := sys.Run(f.Subject)
@@ -727,10 +797,13 @@ func (c *completer) raise(sys *model.System, st *state, last []result.Finding, n
 		case result.CheckInterrupting:
 			raise(st.dev, f.Subject, func(fl *floors) bool { return setMax(&fl.interrupting, f.Value+1) })
 		case result.CheckProtectionSurge:
+			// A rating that carries the start as long as it lasts: the
+			// present one scaled by how far the start exceeds what it
+			// carries (the curves of a kind scale with the rating).
 			r := sys.Run(f.Subject)
-			if r != nil && r.Spec.Protection != nil {
-				next := r.Spec.Protection.Rating.Amps() + 1e-6
-				raise(st.dev, f.Subject, func(fl *floors) bool { return setMax(&fl.rating, next) })
+			if r != nil && r.Spec.Protection != nil && f.Limit > 0 {
+				need := math.Max(r.Spec.Protection.Rating.Amps()*f.Value/f.Limit, r.Spec.Protection.Rating.Amps()+1e-6)
+				raise(st.dev, f.Subject, func(fl *floors) bool { return setMax(&fl.rating, need) })
 			}
 		case result.CheckVoltageRating:
 			switch {

@@ -37,6 +37,7 @@ func (p *problem) proposal(d *compiler.Design, designer *result.Result) *Proposa
 		rep.Designer = side(d.Spec, designer.Checks, designer.BOM)
 	}
 	out := &Proposal{Report: rep, Notes: map[string]string{}}
+	rep.Design = d.Identity()
 	switch {
 	case p.best == nil:
 		rep.Status = "none"
@@ -115,7 +116,7 @@ func binding(fs []result.Finding) []result.Finding {
 	}
 	var list []rel
 	for _, f := range fs {
-		if f.Status != result.Pass || f.Limit == 0 || f.Margin < 0 {
+		if f.Status != result.Pass || f.Limit == 0 || f.Margin < 0 || !isMargin(f) {
 			continue
 		}
 		list = append(list, rel{f, f.Margin / math.Abs(f.Limit)})
@@ -135,6 +136,19 @@ func binding(fs []result.Finding) []result.Finding {
 		out = append(out, list[i].f)
 	}
 	return out
+}
+
+// isMargin reports whether a finding's margin measures something: a
+// part made for the system voltage, or a run protected by its own device,
+// is reported against itself, with no margin to speak of.
+func isMargin(f result.Finding) bool {
+	switch f.ID {
+	case result.CheckEquipmentSystem:
+		return false
+	case result.CheckProtected:
+		return f.Value != f.Limit
+	}
+	return true
 }
 
 // blockers are the failures that kept every combination from passing: the
@@ -164,12 +178,16 @@ func header(d *compiler.Design, rep *result.Proposal) string {
 	fmt.Fprintf(&b, "Proposed by `ampwright propose %s`", d.Dir)
 	switch rep.Status {
 	case "proven":
-		b.WriteString(": the cheapest design from the yard's catalog that passes every check.\n")
+		b.WriteString(": the cheapest design from the yard's catalog that passes every check.")
 	default:
-		b.WriteString(": the cheapest design found that passes every check, not proven the cheapest (the search was cut).\n")
+		b.WriteString(": the cheapest design found that passes every check, not proven the cheapest (the search was cut).")
 	}
-	fmt.Fprintf(&b, "Cost %s against the designer's %s. Check it with `ampwright check`;\n", money(rep.Proposed.Cost, rep.Currency), money(rep.Designer.Cost, rep.Currency))
-	b.WriteString("the comments marked \"proposed\" say what changed and why.")
+	if len(rep.Designer.Bank) > 0 {
+		fmt.Fprintf(&b, " It costs %s against the designer's %s.", money(rep.Proposed.Cost, rep.Currency), money(rep.Designer.Cost, rep.Currency))
+	} else {
+		fmt.Fprintf(&b, " It costs %s.", money(rep.Proposed.Cost, rep.Currency))
+	}
+	b.WriteString(" Check it with `ampwright check`; the comments marked \"proposed\" say what changed and why.")
 	return b.String()
 }
 
@@ -345,7 +363,7 @@ func bindsFor(fs []result.Finding, keep func(result.Finding) bool) string {
 	var best *result.Finding
 	bestR := math.Inf(1)
 	for i, f := range fs {
-		if f.Status == result.Fail || !keep(f) || f.Limit == 0 {
+		if f.Status == result.Fail || !keep(f) || f.Limit == 0 || !isMargin(f) {
 			continue
 		}
 		r := f.Margin / math.Abs(f.Limit)
@@ -365,23 +383,20 @@ func bindsFor(fs []result.Finding, keep func(result.Finding) bool) string {
 func (p *problem) smallerOption(best *evaluation, i int) (string, string) {
 	dm := p.dims[i]
 	cur := dm.opts[best.combo[i]]
+	// One battery or string fewer of the same; for a single one, or for
+	// a part, the next cheaper option.
 	next := -1
-	switch dm.kind {
-	case dimBank, dimArray:
+	if dm.kind == dimBank || dm.kind == dimArray {
 		for j, o := range dm.opts {
 			if o.family == cur.family && o.amount == cur.amount-1 {
 				next = j
 			}
 		}
-	default:
-		if best.combo[i] > 0 {
-			next = best.combo[i] - 1
-		}
+	}
+	if next < 0 && best.combo[i] > 0 {
+		next = best.combo[i] - 1
 	}
 	if next < 0 {
-		if dm.kind == dimBank || dm.kind == dimArray {
-			return "", ""
-		}
 		return "", ""
 	}
 	c := append([]int(nil), best.combo...)

@@ -79,8 +79,29 @@ var Premises = []string{
 func Propose(d *compiler.Design, designer *result.Result, cat *schema.Catalog, opts Options) (*Proposal, error) {
 	sys0 := d.Sys
 	if sys0 == nil {
+		// The model of a design with links left open, each given the
+		// catalog's first part of its kind to stand in: the search
+		// chooses every one.
+		spec := *d.Spec
+		spec.Links = copyMap(spec.Links)
+		for _, n := range schema.Names(spec.Links) {
+			l := spec.Links[n]
+			if !l.Open() {
+				continue
+			}
+			for _, id := range schema.Names(cat.Link) {
+				if l.Kind == "" || cat.Link[id].Kind == l.Kind {
+					l.Part = cat.Link[id]
+					break
+				}
+			}
+			if l.Open() {
+				return nil, fmt.Errorf("links.%s: the catalog has no %s to choose from", model.Label(n), orWord(l.Kind, "link"))
+			}
+			spec.Links[n] = l
+		}
 		var issues []model.Issue
-		if sys0, issues = model.Build(d.Spec, d.Rules); len(issues) > 0 {
+		if sys0, issues = model.Build(&spec, d.Rules); len(issues) > 0 {
 			return nil, fmt.Errorf("%s: %s", issues[0].Path, issues[0].Msg)
 		}
 	}
@@ -99,6 +120,13 @@ func Propose(d *compiler.Design, designer *result.Result, cat *schema.Catalog, o
 		p.search()
 	}
 	return p.proposal(d, designer), nil
+}
+
+func orWord(s, alt string) string {
+	if s == "" {
+		return alt
+	}
+	return s
 }
 
 // choices lists the search's choices: every bank, every array on a

@@ -209,7 +209,8 @@ func (p *problem) learn(ev *evaluation) bool {
 	if len(ev.fails) == 0 {
 		return true
 	}
-	if p.closest == nil || len(ev.fails) < len(p.closest.fails) {
+	if p.closest == nil || len(ev.fails) < len(p.closest.fails) ||
+		(len(ev.fails) == len(p.closest.fails) && shortfall(ev.fails) < shortfall(p.closest.fails)) {
 		p.closest = ev
 	}
 	for _, f := range ev.fails {
@@ -221,6 +222,18 @@ func (p *problem) learn(ev *evaluation) bool {
 		p.addFact(signature{check: f.ID, subject: f.Subject, deps: deps}, ev.combo)
 	}
 	return len(p.blocking) == 0
+}
+
+// shortfall is how far failing findings fall short of their limits, each
+// as a fraction of its limit: the closer to passing, the smaller.
+func shortfall(fs []result.Finding) float64 {
+	var t float64
+	for _, f := range fs {
+		if f.Limit != 0 && f.Margin < 0 {
+			t += -f.Margin / math.Abs(f.Limit)
+		}
+	}
+	return t
 }
 
 // gallop finds, for a combination that fails only checks that more

@@ -6,6 +6,8 @@ package result
 // propose` prints it, and `ampwright pack --with-proposal` puts it in the
 // pack as an appendix.
 type Proposal struct {
+	// Design names the hull the proposal is for.
+	Design Identity `json:"design"`
 	// Status is "proven" when the search completed: nothing in the
 	// catalog costs less and passes; "best-found" when the search was cut
 	// (see Cut) and the proposal is the cheapest found so far, not proven;

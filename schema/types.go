@@ -494,6 +494,7 @@ type Terminal struct {
 // Busbar is a busbar, terminal block or fuse block.
 type Busbar struct {
 	Part
+	Kind    string        `json:"kind,omitempty"`
 	Rating  *unit.Current `json:"rating,omitempty"`
 	Studs   int           `json:"studs,omitempty"`
 	Ways    int           `json:"ways,omitempty"`

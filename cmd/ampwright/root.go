@@ -84,6 +84,7 @@ nor the standards and local rules that apply to the boat.`,
 		Example: `  ampwright check designs/hulls/dunnock
   ampwright check --format json designs/hulls/*
   ampwright pack designs/hulls/marram -o marram.pdf
+  ampwright propose designs/hulls/dunnock -o designs/hulls/dunnock-proposed
   ampwright fleet designs
   ampwright diff --base origin/main --format markdown designs
   ampwright explain wiring.voltageDrop
@@ -105,6 +106,7 @@ nor the standards and local rules that apply to the boat.`,
 		newFleetCmd(),
 		newExplainCmd(),
 		newPackCmd(),
+		newProposeCmd(),
 		newSchemaCmd(),
 		newVersionCmd(),
 	)
