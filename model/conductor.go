@@ -203,15 +203,33 @@ func (s *System) ampacityAt(c *schema.Conductor, size unit.Size, volts float64) 
 func RatingAtMost[V any](m map[string]V, t float64) string {
 	best, bestT := "", math.Inf(-1)
 	for _, k := range schema.Names(m) {
-		q, err := unit.ParseAs(k, unit.DimTemperature)
-		if err != nil {
+		v, ok := keyTemperature(k)
+		if !ok {
 			continue
 		}
-		if q.Value <= t+1e-9 && q.Value > bestT {
-			best, bestT = k, q.Value
+		if v <= t+1e-9 && v > bestT {
+			best, bestT = k, v
 		}
 	}
 	return best
+}
+
+// keyTemperatures caches the temperature, in the unit's SI value, of each
+// insulation-rating key of the rulebook's tables, as keyAreas the sizes.
+var keyTemperatures sync.Map // string → float64, or false
+
+func keyTemperature(k string) (float64, bool) {
+	if v, ok := keyTemperatures.Load(k); ok {
+		t, isTemp := v.(float64)
+		return t, isTemp
+	}
+	q, err := unit.ParseAs(k, unit.DimTemperature)
+	if err != nil {
+		keyTemperatures.Store(k, false)
+		return 0, false
+	}
+	keyTemperatures.Store(k, q.Value)
+	return q.Value, true
 }
 
 // DropLimit is the rulebook's voltage-drop limit for a class, percent.

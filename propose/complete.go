@@ -3,6 +3,7 @@ package propose
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strings"
 
@@ -40,6 +41,7 @@ type completer struct {
 	std      map[string][]unit.Size
 	from     map[string][]sized
 	together map[string]map[string]float64
+	amp      map[string]float64
 }
 
 // sized is the size chosen for a run at given currents.
@@ -51,7 +53,7 @@ type sized struct {
 
 func newCompleter(base *schema.Design, rules schema.Rulebook, cat *schema.Catalog) *completer {
 	c := &completer{rules: rules, cat: cat, base: base, cache: map[string]sized{},
-		std: map[string][]unit.Size{}, from: map[string][]sized{}, together: map[string]map[string]float64{}}
+		std: map[string][]unit.Size{}, from: map[string][]sized{}, together: map[string]map[string]float64{}, amp: map[string]float64{}}
 	for _, id := range schema.Names(cat.Cable) {
 		c.cables = append(c.cables, cat.Cable[id])
 	}
@@ -284,6 +286,11 @@ func setSize(spec *schema.Design, r *model.Run, z sized) {
 	cd.Cable = z.cable
 	put(cd)
 	r.Spec.Size, r.Spec.Cable = z.size, z.cable
+	// A return of no size of its own is of the run's, as the model
+	// builds it.
+	if r.Role != model.Return && (r.Spec.Return == nil || r.Spec.Return.Size == nil) {
+		r.Ret.Size = z.size
+	}
 }
 
 // busFloor is the least the bus parts can cost: the cheapest of each
@@ -363,44 +370,74 @@ func (c *completer) floor(sys *model.System) float64 {
 }
 
 // bound is the least the completion of a lightly sized design can cost,
-// its chosen and fixed parts aside: each run's conductors at the cheapest
-// cable by the metre of any size it may still take, a device of at least
-// the run's current where the designer put one, the bus parts' floor.
+// its chosen and fixed parts aside. A run the designer protects takes a
+// device of at least its current that breaks the fault current the
+// Interrupting check finds at the light sizes (the least it can be: larger
+// conductors only lower the resistance ahead of it), on a conductor large
+// enough for that device's rating; every run's conductors cost at least
+// the cheapest cable by the metre of the sizes it may take; the buses at
+// least their floor. It is +Inf when no device fits a run at any size:
+// the completion cannot succeed.
 func (c *completer) bound(sys *model.System, busFloor float64) float64 {
 	slack := 0.0
 	if c.rules.BOM != nil {
 		slack = c.rules.BOM.Slack
 	}
+	fault := map[string]float64{}
+	_, figs := checks.RunAll([]*checks.Check{checks.Interrupting}, checks.NewInput(sys, nil, nil))
+	for _, f := range figs {
+		if f.ID == result.FigFaultCurrent {
+			fault[f.Subject] = f.Value
+		}
+	}
 	total := busFloor
 	for _, r := range append(sys.Runs[:len(sys.Runs):len(sys.Runs)], sys.Returns...) {
-		if r.Spec.Protection != nil {
-			least := math.Inf(1)
-			for _, d := range c.devices {
-				if d.Rating.Amps() >= r.Current-1e-9 {
-					least = math.Min(least, devicePrice(d))
-				}
-			}
-			if !math.IsInf(least, 1) {
-				total += least
-			}
-		}
-		if r.Spec.Cable == nil {
-			continue
-		}
-		cheapest := math.Inf(1)
-		for _, z := range c.sizesFrom(r, r.Spec.Size, c.designerRun(r.Name)) {
-			cheapest = math.Min(cheapest, cablePerMetre(z))
-		}
-		if math.IsInf(cheapest, 1) {
-			continue
-		}
 		length := r.Spec.Length.Metres()
 		if r.Role != model.Return && r.Ret.Own && sameSize(r.Ret.Size, r.Spec.Size) {
 			length += r.Ret.Length
 		}
-		total += cheapest * length * (1 + slack)
+		opts := c.sizesFrom(r, r.Spec.Size, c.designerRun(r.Name))
+		if len(opts) == 0 {
+			continue
+		}
+		least := math.Inf(1)
+		for _, z := range opts {
+			cable := cablePerMetre(z) * length * (1 + slack)
+			if r.Spec.Protection == nil {
+				least = math.Min(least, cable)
+				continue
+			}
+			hi := c.rules.Protection.Ratio * c.ampacity(sys, r, z.size)
+			for _, d := range c.devices {
+				rt := d.Rating.Amps()
+				// fault is rounded to a tenth by the figure: a tenth off.
+				if rt >= r.Current-1e-9 && rt <= hi+1e-9 && d.Interrupting.Amps() >= fault[r.Name]-0.1 {
+					least = math.Min(least, cable+devicePrice(d))
+				}
+			}
+		}
+		if math.IsInf(least, 1) {
+			if r.Spec.Protection != nil {
+				return math.Inf(1)
+			}
+			continue
+		}
+		total += least
 	}
 	return math.Floor(total*100) / 100
+}
+
+// ampacity is run r's derated ampacity at size, which depends on the run
+// as the design gives it (insulation, engine space, bundling) alone: kept
+// across candidates.
+func (c *completer) ampacity(sys *model.System, r *model.Run, size unit.Size) float64 {
+	key := r.Name + "\x00" + size.Text
+	if a, ok := c.amp[key]; ok {
+		return a
+	}
+	a := sys.RunAmpacity(r, size).Derated
+	c.amp[key] = a
+	return a
 }
 
 // light sizes every conductor of spec at its currents and fits the string
@@ -432,6 +469,9 @@ func (c *completer) light(spec *schema.Design) (*schema.Design, *model.System, e
 		setSize(out, r, z)
 	}
 	c.stringFuses(out, nil)
+	for _, a := range sys.Arrays {
+		a.Spec.StringFuse = out.Arrays[a.Name].StringFuse
+	}
 	return out, sys, nil
 }
 
@@ -609,13 +649,15 @@ type state struct {
 	dev    map[string]floors    // run → its device's floors
 	busFl  map[string]floors    // bus path → its part's floors
 	fuseFl map[string]floors    // array → its string fuses' floors
+	// noBus are the buses no catalog part of their kind fits, this round.
+	noBus []string
 }
 
 // full completes spec, which light has sized: devices, buses and fuses,
 // then whatever the completion checks still fail. It returns the completed
 // design, its model, and the completion checks' findings that still fail
 // (none when it succeeded).
-func (c *completer) full(spec *schema.Design) (*schema.Design, *model.System, []result.Finding, error) {
+func (c *completer) full(spec *schema.Design, sys0 *model.System) (*schema.Design, *model.System, []result.Finding, error) {
 	out := cloneWiring(spec)
 	st := &state{start: map[string]unit.Size{}, bumps: map[string]int{}, dev: map[string]floors{}, busFl: map[string]floors{}, fuseFl: map[string]floors{}}
 	for k, v := range out.Wiring {
@@ -628,14 +670,21 @@ func (c *completer) full(spec *schema.Design) (*schema.Design, *model.System, []
 	}
 	var last []result.Finding
 	for round := 0; round < maxRounds; round++ {
-		sys, issues := model.Build(out, c.rules)
-		if len(issues) > 0 {
-			return nil, nil, nil, fmt.Errorf("%s: %s", issues[0].Path, issues[0].Msg)
+		// Sizes, devices and parts do not change the model's currents:
+		// each round resets them on the same model.
+		sys := sys0
+		if sys == nil {
+			var issues []model.Issue
+			if sys, issues = model.Build(out, c.rules); len(issues) > 0 {
+				return nil, nil, nil, fmt.Errorf("%s: %s", issues[0].Path, issues[0].Msg)
+			}
+			sys0 = sys
 		}
+		st.noBus = nil
 		noDevice := c.fit(out, sys, st)
 		in := checks.NewInput(sys, nil, nil)
 		findings, _ := checks.RunAll(roundChecks, in)
-		last = failing(findings)
+		last = c.reword(sys, st, failing(findings))
 		if len(last) == 0 && len(noDevice) == 0 {
 			changed, rest := c.repairDrops(out, sys, in, st)
 			switch {
@@ -699,6 +748,8 @@ func (c *completer) fit(out *schema.Design, sys *model.System, st *state) []stri
 			bs.Part = p
 			out.Buses[b.Name] = bs
 			b.Spec.Part = p
+		} else {
+			st.noBus = append(st.noBus, b.Path)
 		}
 	}
 	for _, b := range sys.NegativeBuses {
@@ -714,6 +765,8 @@ func (c *completer) fit(out *schema.Design, sys *model.System, st *state) []stri
 			nb.Part = p
 			out.Negative.Buses[b.Name] = nb
 			b.Spec.Part = p
+		} else {
+			st.noBus = append(st.noBus, b.Path)
 		}
 	}
 	c.stringFuses(out, st.fuseFl)
@@ -721,6 +774,41 @@ func (c *completer) fit(out *schema.Design, sys *model.System, st *state) []stri
 		a.Spec.StringFuse = out.Arrays[a.Name].StringFuse
 	}
 	return noDevice
+}
+
+// reword says of a bus that no catalog part of its kind fits what it
+// needs, rather than what its last part lacked.
+func (c *completer) reword(sys *model.System, st *state, fs []result.Finding) []result.Finding {
+	if len(st.noBus) == 0 {
+		return fs
+	}
+	for i, f := range fs {
+		p := busPath(sys, f.Subject)
+		if !slices.Contains(st.noBus, p) || (f.ID != result.CheckBusWays && f.ID != result.CheckBusCurrent) {
+			continue
+		}
+		kind := "negative bus"
+		for _, b := range sys.Buses {
+			if b.Path == p {
+				kind = b.Spec.Kind
+			}
+		}
+		fl := st.busFl[p]
+		var needs []string
+		if fl.ways > 0 {
+			needs = append(needs, fmt.Sprintf("at least %d ways", fl.ways))
+		}
+		if fl.rating > 0 {
+			needs = append(needs, fmt.Sprintf("a rating of at least %.4g A", fl.rating))
+		}
+		if fl.voltage > 0 {
+			needs = append(needs, fmt.Sprintf("a voltage rating of at least %.4g V", fl.voltage))
+		}
+		f.Message = fmt.Sprintf("no %s in the catalog has %s", kind, strings.Join(needs, " and "))
+		f.Change = fmt.Sprintf("a %s of %s in the catalog, or the circuits split over two", kind, strings.Join(needs, " and "))
+		fs[i] = f
+	}
+	return fs
 }
 
 // raise answers a round's failures: a larger conductor, a device, bus or

@@ -2,6 +2,7 @@ package propose
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 
 	"github.com/ampwright/ampwright/result"
@@ -45,9 +46,13 @@ type signature struct {
 	check   result.CheckID
 	subject string
 	deps    []dep
+	ident   string // id, once known
 }
 
 func (s signature) id() string {
+	if s.ident != "" {
+		return s.ident
+	}
 	var b strings.Builder
 	fmt.Fprintf(&b, "%s\x00%s", s.check, s.subject)
 	for _, d := range s.deps {
@@ -71,23 +76,24 @@ func newFactBook() *factBook {
 // key is the part of a combination a signature's facts must match
 // exactly: the option of each exact dep, the family of the others.
 func (p *problem) key(s signature, combo []int) string {
-	var b strings.Builder
-	b.WriteString(s.id())
+	b := make([]byte, 0, 64)
+	b = append(b, s.id()...)
 	for _, d := range s.deps {
-		o := p.dims[d.dim].opts[combo[d.dim]]
+		b = append(b, 1)
 		if d.dir == exact {
-			fmt.Fprintf(&b, "\x01%d", combo[d.dim])
+			b = strconv.AppendInt(b, int64(combo[d.dim]), 10)
 		} else {
-			fmt.Fprintf(&b, "\x01%s", o.family)
+			b = append(b, p.dims[d.dim].opts[combo[d.dim]].family...)
 		}
 	}
-	return b.String()
+	return string(b)
 }
 
 // add records that combo fails the signature's check.
 func (p *problem) addFact(s signature, combo []int) {
 	fb := p.facts
 	id := s.id()
+	s.ident = id
 	if !fb.known[id] {
 		fb.known[id] = true
 		fb.sigs = append(fb.sigs, s)
@@ -263,6 +269,10 @@ func (p *problem) depsOf(f result.Finding) []dep {
 	case result.CheckLinkCurrent:
 		add(dimLink, f.Subject, exact)
 		add(dimController, "", exact)
+	case result.CheckBusWays, result.CheckTotalDrop:
+		// A panel's circuits are the design's, and a whole path is
+		// checked at currents of the loads alone: when the completion
+		// cannot mend them with the largest parts, no choice can.
 	case "model":
 		// The model refused the combination: it alone fails.
 		for i := range p.dims {

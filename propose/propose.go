@@ -77,6 +77,20 @@ var Premises = []string{
 // passes every check. designer is d's own result (from compiler.Compile),
 // cat the whole yard catalog (d.Catalog).
 func Propose(d *compiler.Design, designer *result.Result, cat *schema.Catalog, opts Options) (*Proposal, error) {
+	p, err := newProblem(d, cat, opts)
+	if err != nil {
+		return nil, err
+	}
+	p.seed(designer)
+	if len(p.blocking) == 0 {
+		p.search()
+	}
+	return p.proposal(d, designer), nil
+}
+
+// newProblem sets up the search of hull d over catalog cat: its choices,
+// the fixed parts' price and the completion's floor.
+func newProblem(d *compiler.Design, cat *schema.Catalog, opts Options) (*problem, error) {
 	sys0 := d.Sys
 	if sys0 == nil {
 		// The model of a design with links left open, each given the
@@ -115,11 +129,7 @@ func Propose(d *compiler.Design, designer *result.Result, cat *schema.Catalog, o
 	p.comp = newCompleter(d.Spec, d.Rules, cat)
 	p.floor = p.comp.floor(sys0)
 	p.busFloor = p.comp.busFloor(sys0)
-	p.seed(designer)
-	if len(p.blocking) == 0 {
-		p.search()
-	}
-	return p.proposal(d, designer), nil
+	return p, nil
 }
 
 func orWord(s, alt string) string {

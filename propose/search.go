@@ -3,6 +3,8 @@ package propose
 import (
 	"container/heap"
 	"math"
+	"runtime"
+	"sync"
 	"time"
 
 	"github.com/ampwright/ampwright/checks"
@@ -56,6 +58,10 @@ type evaluation struct {
 	cost     float64
 	passes   bool
 	designer bool // the designer's own design, as written
+	// dearer is true when the completed design was left unchecked: it
+	// costs no less than the best found; checked when it was put to the
+	// checks at all.
+	dearer, checked bool
 }
 
 // screenChecks are the checks of the choices themselves, that the search
@@ -137,18 +143,29 @@ func copyMap[V any](m map[string]V) map[string]V {
 // energy checks if it passes them.
 func (p *problem) screen(combo []int) *evaluation {
 	p.evaluated++
+	return p.screenWith(p.comp, combo, math.Inf(1))
+}
+
+// screenWith is screen with a completer of its own, for a worker. When
+// best is finite and the light design's completion cannot beat it, the
+// combination is left unchecked (dearer).
+func (p *problem) screenWith(comp *completer, combo []int, best float64) *evaluation {
 	ev := &evaluation{combo: append([]int(nil), combo...)}
-	spec, _, err := p.comp.light(p.apply(combo))
+	// light's model has its sizes set in place: nothing else of the
+	// model depends on them.
+	spec, sys, err := comp.light(p.apply(combo))
 	if err != nil {
 		ev.fails = []result.Finding{{ID: "model", Subject: "design", Status: result.Fail, Message: err.Error()}}
 		return ev
 	}
-	sys, issues := model.Build(spec, p.rules)
-	if len(issues) > 0 {
-		ev.fails = []result.Finding{{ID: "model", Subject: issues[0].Path, Status: result.Fail, Message: issues[0].Msg}}
+	ev.spec, ev.sys = spec, sys
+	// The completion only raises what light sized: if even its least
+	// cost cannot beat the best, the combination need not be checked.
+	if !math.IsInf(best, 1) && p.lowerBound(combo)-p.floor+comp.bound(sys, p.busFloor) >= best-costEps {
+		ev.dearer = true
 		return ev
 	}
-	ev.spec, ev.sys = spec, sys
+	ev.checked = true
 	in := checks.NewInput(sys, nil, nil)
 	fs, _ := checks.RunAll(screenChecks, in)
 	ev.fails = failing(fs)
@@ -175,7 +192,16 @@ func failing(fs []result.Finding) []result.Finding {
 // finish completes a screened combination's devices, buses and whatever
 // the completion checks still ask for, then checks it whole and costs it.
 func (p *problem) finish(ev *evaluation) {
-	spec, _, rest, err := p.comp.full(ev.spec)
+	best := math.Inf(1)
+	if p.best != nil {
+		best = p.best.cost
+	}
+	p.finishWith(p.comp, ev, best)
+}
+
+// finishWith is finish with a completer of its own and the cost to beat.
+func (p *problem) finishWith(comp *completer, ev *evaluation, best float64) {
+	spec, sys, rest, err := comp.full(ev.spec, ev.sys)
 	if err != nil {
 		ev.fails = []result.Finding{{ID: "model", Subject: "design", Status: result.Fail, Message: err.Error()}}
 		return
@@ -183,6 +209,14 @@ func (p *problem) finish(ev *evaluation) {
 	if len(rest) > 0 {
 		ev.fails = rest
 		return
+	}
+	// Costed before it is checked whole: a design that costs no less than
+	// the best needs no checking.
+	if sys != nil {
+		if c := compiler.BillOfMaterials(spec, p.rules, sys).Total; c >= best-costEps {
+			ev.cost, ev.dearer = c, true
+			return
+		}
 	}
 	p.check(ev, spec)
 }
@@ -356,61 +390,107 @@ func (q *queue) Pop() any {
 	return n
 }
 
+// batch is how many combinations the search evaluates together, on as
+// many workers as there are processors. It is fixed, not the number of
+// processors, so that the search evaluates the same combinations, and
+// reports the same counts, on any machine.
+const batch = 8
+
 // search runs the branch and bound: combinations in order of their lower
 // bound (parts' prices; ties by the options' order, which is by name), each
 // decided by the facts learnt or evaluated; it ends when the next lower
 // bound reaches the cheapest passing design's cost (the proof), when
 // nothing is left, when a failure no choice can mend is found, or at the
-// deadline.
+// deadline. Combinations are evaluated a batch at a time, concurrently,
+// and their results taken in order, so that the outcome is the one the
+// batch's order gives whatever the workers' timing.
 func (p *problem) search() {
+	workers := max(1, min(batch, runtime.GOMAXPROCS(0)))
+	comps := []*completer{p.comp}
+	for len(comps) < workers {
+		comps = append(comps, newCompleter(p.base, p.rules, p.cat))
+	}
 	q := &queue{}
 	heap.Push(q, &node{combo: make([]int, len(p.dims)), lb: p.lowerBound(make([]int, len(p.dims)))})
-	for q.Len() > 0 {
+	done := false
+	for !done && q.Len() > 0 {
 		if p.expired() {
 			return
 		}
-		n := heap.Pop(q).(*node)
-		if p.best != nil && n.lb >= p.best.cost-costEps {
-			return
-		}
-		for j := n.last; j < len(p.dims); j++ {
-			if n.combo[j]+1 < len(p.dims[j].opts) {
-				c := append([]int(nil), n.combo...)
-				c[j]++
-				heap.Push(q, &node{combo: c, last: j, lb: p.lowerBound(c)})
+		var todo []*node
+		for len(todo) < batch && q.Len() > 0 {
+			n := heap.Pop(q).(*node)
+			if p.best != nil && n.lb >= p.best.cost-costEps {
+				done = true
+				break
 			}
-		}
-		p.considered++
-		if _, out := p.ruledOut(n.combo); out {
-			continue
-		}
-		ev := p.screen(n.combo)
-		if len(ev.fails) > 0 {
-			if !p.learn(ev) {
-				return
+			for j := n.last; j < len(p.dims); j++ {
+				if n.combo[j]+1 < len(p.dims[j].opts) {
+					c := append([]int(nil), n.combo...)
+					c[j]++
+					heap.Push(q, &node{combo: c, last: j, lb: p.lowerBound(c)})
+				}
 			}
-			p.gallop(ev)
-			if len(p.blocking) > 0 {
-				return
+			p.considered++
+			if _, out := p.ruledOut(n.combo); out {
+				continue
 			}
-			continue
+			todo = append(todo, n)
 		}
-		// The completion only raises what light sized: if even its least
-		// cost cannot beat the best, it need not be done.
-		if p.best != nil && p.lowerBound(n.combo)-p.floor+p.comp.bound(ev.sys, p.busFloor) >= p.best.cost-costEps {
-			continue
+		best := math.Inf(1)
+		if p.best != nil {
+			best = p.best.cost
 		}
-		p.finish(ev)
-		if !ev.passes {
-			if !p.learn(ev) {
-				return
+		evs := make([]*evaluation, len(todo))
+		var wg sync.WaitGroup
+		next := make(chan int)
+		for w := range min(workers, len(todo)) {
+			wg.Add(1)
+			go func(comp *completer) {
+				defer wg.Done()
+				for i := range next {
+					evs[i] = p.evaluate(comp, todo[i].combo, best)
+				}
+			}(comps[w])
+		}
+		for i := range todo {
+			next <- i
+		}
+		close(next)
+		wg.Wait()
+		for _, ev := range evs {
+			if ev.checked {
+				p.evaluated++
 			}
-			continue
-		}
-		if p.best == nil || ev.cost < p.best.cost-costEps {
-			p.best = ev
+			if ev.dearer {
+				continue
+			}
+			if !ev.passes {
+				if !p.learn(ev) {
+					return
+				}
+				p.gallop(ev)
+				if len(p.blocking) > 0 {
+					return
+				}
+				continue
+			}
+			if p.best == nil || ev.cost < p.best.cost-costEps {
+				p.best = ev
+			}
 		}
 	}
+}
+
+// evaluate screens a combination and, when it passes, completes it and
+// checks it whole, unless it cannot beat best.
+func (p *problem) evaluate(comp *completer, combo []int, best float64) *evaluation {
+	ev := p.screenWith(comp, combo, best)
+	if len(ev.fails) > 0 || ev.dearer {
+		return ev
+	}
+	p.finishWith(comp, ev, best)
+	return ev
 }
 
 // combinations is the number of combinations of the choices' options.

@@ -35,7 +35,7 @@ func ProposalText(w io.Writer, pr *result.Proposal) error {
 	if pr.Status != "none" {
 		side("proposal:", pr.Proposed)
 	}
-	p.line("search:   %s", SearchText(pr.Search))
+	p.line("search:   %s", SearchText(pr))
 
 	if len(pr.Blocking) > 0 {
 		p.section("Nothing in the catalog passes")
@@ -94,13 +94,18 @@ func ProposalStatus(pr *result.Proposal) string {
 }
 
 // SearchText says in a line what the search covered.
-func SearchText(s result.ProposalSearch) string {
+func SearchText(pr *result.Proposal) string {
+	s := pr.Search
 	var dims []string
 	for _, k := range sortedKeys(s.Options) {
 		dims = append(dims, fmt.Sprintf("%s (%d)", k, s.Options[k]))
 	}
-	return fmt.Sprintf("%s combinations of %s; %d reached below the cost bound (the others cost more than the proposal), %d of those checked, the rest ruled out by failures found and the premises",
-		strconv.FormatFloat(s.Combinations, 'f', 0, 64), strings.Join(dims, " × "), s.Considered, s.Evaluated)
+	all := fmt.Sprintf("%s combinations of %s", strconv.FormatFloat(s.Combinations, 'f', 0, 64), strings.Join(dims, " × "))
+	if pr.Status == "none" {
+		return fmt.Sprintf("%s; %d reached, %d checked, the rest ruled out by failures found and the premises", all, s.Considered, s.Evaluated)
+	}
+	return fmt.Sprintf("%s; %d reached below the cost bound (the others cost more than the proposal), %d checked, the rest ruled out by failures found and the premises",
+		all, s.Considered, s.Evaluated)
 }
 
 func sortedKeys(m map[string]int) []string {
