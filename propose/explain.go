@@ -131,9 +131,19 @@ func binding(fs []result.Finding) []result.Finding {
 		}
 		return a.f.Subject < b.f.Subject
 	})
+	// At most two of a check, so that many conductors at the minimum
+	// size do not hide the bank's or the array's margin.
 	out := []result.Finding{}
-	for i := 0; i < len(list) && i < maxBinding; i++ {
-		out = append(out, list[i].f)
+	per := map[result.CheckID]int{}
+	for _, x := range list {
+		if len(out) == maxBinding {
+			break
+		}
+		if per[x.f.ID] == 2 {
+			continue
+		}
+		per[x.f.ID]++
+		out = append(out, x.f)
 	}
 	return out
 }
@@ -259,7 +269,7 @@ func (p *problem) changes(best *evaluation, rep *result.Proposal, notes map[stri
 			c.Smaller, c.SmallerFails = p.smallerOption(best, i)
 			add(c)
 		case dimLink:
-			c := result.ProposalChange{Entry: dm.path, What: "link", From: "(open)", To: o.label}
+			c := result.ProposalChange{Entry: dm.path, What: "link", From: "left open", To: o.label}
 			c.Binds = bindsFor(best.findings, func(f result.Finding) bool { return f.Subject == dm.name })
 			c.Smaller, c.SmallerFails = p.smallerOption(best, i)
 			add(c)

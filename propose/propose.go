@@ -158,8 +158,10 @@ func (p *problem) choices() error {
 	for _, c := range p.sys0.Controllers {
 		p.dims = append(p.dims, controllerDim(c, p.cat))
 	}
+	// The model's links have stand-in parts where the design's are open.
+	open := func(l *model.Link) bool { return p.base.Links[l.Name].Open() }
 	for _, l := range p.sys0.Links {
-		if l.Spec.Open() {
+		if open(l) {
 			p.dims = append(p.dims, linkDim(l, p.cat))
 		}
 	}
@@ -186,7 +188,7 @@ func (p *problem) choices() error {
 		}
 	}
 	for _, l := range p.sys0.Links {
-		if !l.Spec.Open() {
+		if !open(l) {
 			pr, _ := price(l.Spec.Part.Part)
 			p.fixed += pr
 		}

@@ -23,7 +23,11 @@ func ProposalText(w io.Writer, pr *result.Proposal) error {
 	if pr.Cut != "" {
 		p.line("          %s", pr.Cut)
 	}
-	if pr.Status != "none" {
+	switch {
+	case pr.Status == "none":
+	case len(pr.Designer.Bank) == 0:
+		p.line("cost:     %s (the design leaves parts open: it has no cost of its own)", cost(pr.Proposed, pr.Currency))
+	default:
 		p.line("cost:     %s against the designer's %s%s", cost(pr.Proposed, pr.Currency), cost(pr.Designer, pr.Currency), saving(pr))
 	}
 	side := func(name string, s result.ProposalSide) {
@@ -57,8 +61,11 @@ func ProposalText(w io.Writer, pr *result.Proposal) error {
 			if c.Binds != "" {
 				p.line("    sized to  %s", c.Binds)
 			}
-			if c.Smaller != "" {
+			switch {
+			case c.Smaller != "":
 				p.line("    smaller   %s fails %s", c.Smaller, c.SmallerFails)
+			case c.What == "controller" || c.What == "link" || c.What == "bank" || c.What == "array":
+				p.line("    smaller   none: nothing cheaper in the catalog")
 			}
 		}
 		p.section("Margins that bind")
