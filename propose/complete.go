@@ -87,6 +87,15 @@ func perMetre(c schema.Cable) float64 {
 	return p
 }
 
+// minDevice is the cheapest device's price, with its holder.
+func (c *completer) minDevice() float64 {
+	least := math.Inf(1)
+	for _, d := range c.devices {
+		least = math.Min(least, devicePrice(d))
+	}
+	return least
+}
+
 // devicePrice is a device's price with its holder's: a run buys both.
 func devicePrice(d schema.Protection) float64 {
 	p, _ := price(d.Part)

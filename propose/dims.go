@@ -110,11 +110,11 @@ func bankLabel(s, p int, id string) string { return fmt.Sprintf("%d × %d %s", s
 func arrayDim(a *model.Array, cat *schema.Catalog) (*dim, error) {
 	pl := a.Spec.Place
 	d := &dim{kind: dimArray, name: a.Name, path: a.Path, designer: -1}
-	if pl.MaxModules == 0 && (pl.Length == nil || pl.Width == nil) {
-		return nil, fmt.Errorf("%s.place: give maxModules, or the place's length and width, for the proposal to choose the array", a.Path)
-	}
 	if (pl.Length == nil) != (pl.Width == nil) {
-		return nil, fmt.Errorf("%s.place: give both length and width, or neither", a.Path)
+		return nil, &pathError{a.Path + ".place", "give both length and width, or neither"}
+	}
+	if pl.MaxModules == 0 && pl.Length == nil {
+		return nil, &pathError{a.Path + ".place", "give maxModules, or the place's length and width, for the proposal to choose the array"}
 	}
 	for _, id := range schema.Names(cat.Module) {
 		m := cat.Module[id]

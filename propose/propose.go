@@ -31,6 +31,7 @@
 package propose
 
 import (
+	"errors"
 	"fmt"
 	"time"
 
@@ -69,6 +70,7 @@ type Proposal struct {
 var Premises = []string{
 	"more batteries in parallel, of the same battery in the same series string, never lower the bank's lowest state of charge, autonomy, discharge or charge-rate limits",
 	"more strings of the same module, in the same series length and on the same controller, never lower the lowest state of charge, and never lower the PV input current",
+	"more batteries in parallel never lower the prospective fault current a device must break",
 	"a larger conductor never raises a voltage drop nor lowers an ampacity, so a run's smallest passing size is found by size alone",
 	"a check that depends on no choice the search makes (a fixed inverter against its loads, a device's distance from its source) cannot be mended by any proposal",
 }
@@ -124,13 +126,25 @@ func newProblem(d *compiler.Design, cat *schema.Catalog, opts Options) (*problem
 		p.now = time.Now
 	}
 	if err := p.choices(); err != nil {
+		var pe *pathError
+		if errors.As(err, &pe) {
+			if pos := d.Position(pe.path); pos != "" {
+				return nil, fmt.Errorf("%s: %s: %s", pos, pe.path, pe.msg)
+			}
+		}
 		return nil, err
 	}
 	p.comp = newCompleter(d.Spec, d.Rules, cat)
 	p.floor = p.comp.floor(sys0)
 	p.busFloor = p.comp.busFloor(sys0)
+	p.checkFault()
 	return p, nil
 }
+
+// pathError is an input error of the design at a CUE path.
+type pathError struct{ path, msg string }
+
+func (e *pathError) Error() string { return e.path + ": " + e.msg }
 
 func orWord(s, alt string) string {
 	if s == "" {
@@ -167,7 +181,7 @@ func (p *problem) choices() error {
 	}
 	for _, dm := range p.dims {
 		if len(dm.opts) == 0 {
-			return fmt.Errorf("%s: the catalog has no part to choose from", dm.path)
+			return &pathError{dm.path, "the catalog has nothing to choose from that fits"}
 		}
 	}
 	// The parts no choice changes.

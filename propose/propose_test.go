@@ -5,6 +5,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 	"time"
 
@@ -353,4 +354,27 @@ func BenchmarkPropose(b *testing.B) {
 		root := testYard(b, syntheticCatalog(50, 30, 20), map[string]string{"synthetic": hull("bat-00", 3, "mod-00", "ctl-01", 4, 1.5)})
 		run(b, filepath.Join(root, "hulls", "synthetic"))
 	})
+}
+
+// TestPlaceErrors: a place that says neither how many modules it takes nor
+// its size, or half its size, is an input error at the array.
+func TestPlaceErrors(t *testing.T) {
+	modules := module("m100", 100, 18.2, 22.1, 90)
+	tests := []struct{ place, want string }{
+		{`place: {length: "2 m"}`, "arrays.rails.place: give both length and width, or neither"},
+		{`place: {name: "rails"}`, "arrays.rails.place: give maxModules, or the place's length and width"},
+	}
+	for _, tt := range tests {
+		src := strings.Replace(hull("fl100", 2, "m100", "pwm20", 2, 1), "place: {maxModules: 2}", tt.place, 1)
+		root := testYard(t, catalogOf(battery("fl100", "flooded", "12 V", 100, 100), modules, controller("pwm20", "pwm", 30, 20, 35)), map[string]string{"small": src})
+		d, r := load(t, filepath.Join(root, "hulls", "small"))
+		cat, _, err := d.Catalog()
+		if err != nil {
+			t.Fatal(err)
+		}
+		_, err = Propose(d, r, cat, Options{})
+		if err == nil || !strings.Contains(err.Error(), tt.want) || !strings.Contains(err.Error(), "small.cue:") {
+			t.Errorf("%s: error %v; want it positioned in small.cue and saying %q", tt.place, err, tt.want)
+		}
+	}
 }

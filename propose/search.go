@@ -30,10 +30,16 @@ type problem struct {
 	// floor is the least any completion costs (completer.floor), and
 	// busFloor the least its bus parts do.
 	floor, busFloor float64
-	comp            *completer
-	facts           *factBook
-	now             func() time.Time
-	until           time.Time
+	// direct are the protected runs straight from each bank, faultInc the
+	// faultIncrement of each bank option, and faultAgrees whether it may
+	// be used.
+	direct      map[string][]string
+	faultInc    map[[2]int]float64
+	faultAgrees bool
+	comp        *completer
+	facts       *factBook
+	now         func() time.Time
+	until       time.Time
 
 	best    *evaluation // the cheapest passing design so far
 	closest *evaluation // the evaluated design with the fewest failures
@@ -83,9 +89,70 @@ var energyChecks = []*checks.Check{checks.Autonomy, checks.VoyageFloor}
 func (p *problem) lowerBound(combo []int) float64 {
 	lb := p.fixed + p.floor
 	for i, c := range combo {
-		lb += p.dims[i].opts[c].cost
+		lb += p.dims[i].opts[c].cost + p.faultIncrement(i, c)
 	}
 	return lb
+}
+
+// faultIncrement is how much more than the floor's cheapest devices the
+// devices on the runs straight from a bank must cost when the bank is
+// option c of choice i: they must break the bank's whole fault current
+// (there is no conductor ahead of them), which a blade fuse does not. It
+// is zero for other choices, and when the fault current as computed here
+// did not agree with the Interrupting check's on the designer's design.
+func (p *problem) faultIncrement(i, c int) float64 {
+	dm := p.dims[i]
+	if dm.kind != dimBank || !p.faultAgrees {
+		return 0
+	}
+	key := [2]int{i, c}
+	if v, ok := p.faultInc[key]; ok {
+		return v
+	}
+	o := dm.opts[c]
+	fault := p.rules.Protection.FaultVoltage * float64(o.series) * o.battery.Voltage.Volts() /
+		(o.battery.Resistance.Ohms() * float64(o.series) / float64(o.parallel))
+	var inc float64
+	for range p.direct[dm.name] {
+		least := math.Inf(1)
+		for _, d := range p.comp.devices {
+			if d.Interrupting.Amps() >= fault-0.1 {
+				least = math.Min(least, devicePrice(d))
+			}
+		}
+		inc += least - p.comp.minDevice()
+	}
+	p.faultInc[key] = inc
+	return inc
+}
+
+// checkFault records the runs straight from each bank that carry a
+// device, and whether the fault current faultIncrement computes agrees
+// with the Interrupting check's on the designer's design.
+func (p *problem) checkFault() {
+	p.direct = map[string][]string{}
+	p.faultInc = map[[2]int]float64{}
+	for _, r := range p.sys0.Runs {
+		if r.Parent == nil && r.Role != model.PV && r.Spec.Protection != nil && r.UpNode.Kind == model.KindBank {
+			p.direct[r.Bank.Name] = append(p.direct[r.Bank.Name], r.Name)
+		}
+	}
+	_, figs := checks.RunAll([]*checks.Check{checks.Interrupting}, checks.NewInput(p.sys0, nil, nil))
+	p.faultAgrees = true
+	for _, f := range figs {
+		if f.ID != result.FigFaultCurrent {
+			continue
+		}
+		r := p.sys0.Run(f.Subject)
+		if r == nil || r.Parent != nil {
+			continue
+		}
+		b := r.Bank.Spec
+		mine := p.rules.Protection.FaultVoltage * r.Bank.NominalVoltage() / (b.Battery.Resistance.Ohms() * float64(b.Series) / float64(b.Parallel))
+		if math.Abs(mine-f.Value) > 0.1 {
+			p.faultAgrees = false
+		}
+	}
 }
 
 // apply is the designer's design with the combination's choices made.
