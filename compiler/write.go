@@ -55,6 +55,7 @@ func (d *Design) Rewrite(spec *schema.Design, cat *schema.Catalog, ref CatalogRe
 	var imports []imp
 	haveImport := map[string]bool{}
 	var lead, kept bytes.Buffer
+	docs := map[string]string{} // the designer's comments in the rewritten groups, by path
 	for i, name := range own {
 		src, err := d.read(name)
 		if err != nil {
@@ -90,6 +91,7 @@ func (d *Design) Rewrite(spec *schema.Design, cat *schema.Catalog, ref CatalogRe
 				continue
 			case *ast.Field:
 				if l, _, _ := ast.LabelName(x.Label); skip[l] {
+					docComments(docs, label(l), x)
 					pos = end
 					continue
 				}
@@ -109,7 +111,16 @@ func (d *Design) Rewrite(spec *schema.Design, cat *schema.Catalog, ref CatalogRe
 		imports = append(imports, imp{ref.Name, ref.ImportPath})
 	}
 
-	e := &emitter{sch: sch, cat: cat, ref: ref, notes: notes}
+	// Notes by path as this file spells paths: labels quoted alike.
+	spelt := map[string]string{}
+	for k, v := range notes {
+		parts := splitPath(k)
+		for i, p := range parts {
+			parts[i] = label(p)
+		}
+		spelt[strings.Join(parts, ".")] = v
+	}
+	e := &emitter{sch: sch, cat: cat, ref: ref, notes: spelt, docs: docs}
 	var groups bytes.Buffer
 	raw, err := json.Marshal(spec)
 	if err != nil {
@@ -214,11 +225,42 @@ type emitter struct {
 	cat   *schema.Catalog
 	ref   CatalogRef
 	notes map[string]string
+	// docs are the designer's own comments on the entries, kept above
+	// them: why a run goes where it goes is still true of the proposal.
+	docs map[string]string
 }
 
 func (e *emitter) note(b *bytes.Buffer, p string) {
+	if d := e.docs[p]; d != "" {
+		for _, l := range strings.Split(strings.TrimRight(d, "\n"), "\n") {
+			b.WriteString(strings.TrimRight("// "+l, " ") + "\n")
+		}
+	}
 	if n := e.notes[p]; n != "" {
 		writeComment(b, n, "  ")
+	}
+}
+
+// docComments records the comments written above field f, at path, and
+// above every field in its struct values, by path.
+func docComments(docs map[string]string, path string, f *ast.Field) {
+	for _, cg := range ast.Comments(f) {
+		if cg.Position == 0 && !cg.Line {
+			if t := strings.TrimSpace(cg.Text()); t != "" {
+				docs[path] = t
+			}
+		}
+	}
+	st, ok := f.Value.(*ast.StructLit)
+	if !ok {
+		return
+	}
+	for _, el := range st.Elts {
+		if sub, ok := el.(*ast.Field); ok {
+			if n, _, _ := ast.LabelName(sub.Label); n != "" {
+				docComments(docs, path+"."+label(n), sub)
+			}
+		}
 	}
 }
 

@@ -73,6 +73,7 @@ var Premises = []string{
 	"more batteries in parallel never lower the prospective fault current a device must break",
 	"a larger conductor never raises a voltage drop nor lowers an ampacity, so a run's smallest passing size is found by size alone",
 	"a check that depends on no choice the search makes (a fixed inverter against its loads, a device's distance from its source) cannot be mended by any proposal",
+	"each combination is completed one way, and costed so: every conductor at the smallest standard size that passes (a larger one from a reel the design buys anyway is not sought), every device, bus part and string fuse the cheapest that passes",
 }
 
 // Propose searches the catalog for the cheapest design of hull d that

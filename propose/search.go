@@ -84,12 +84,21 @@ var screenChecks = []*checks.Check{
 // that passes the others.
 var energyChecks = []*checks.Check{checks.Autonomy, checks.VoyageFloor}
 
-// lowerBound is the least a combination can cost: its chosen parts and the
-// fixed ones; the completion's cable, devices and buses add to it.
+// lowerBound is the least a combination can cost: its parts, and the
+// least its completion's cable, devices and buses can.
 func (p *problem) lowerBound(combo []int) float64 {
-	lb := p.fixed + p.floor
+	lb := p.parts(combo) + p.floor
 	for i, c := range combo {
-		lb += p.dims[i].opts[c].cost + p.faultIncrement(i, c)
+		lb += p.faultIncrement(i, c)
+	}
+	return lb
+}
+
+// parts is the price of a combination's chosen parts and the fixed ones.
+func (p *problem) parts(combo []int) float64 {
+	lb := p.fixed
+	for i, c := range combo {
+		lb += p.dims[i].opts[c].cost
 	}
 	return lb
 }
@@ -101,14 +110,16 @@ func (p *problem) lowerBound(combo []int) float64 {
 // is zero for other choices, and when the fault current as computed here
 // did not agree with the Interrupting check's on the designer's design.
 func (p *problem) faultIncrement(i, c int) float64 {
-	dm := p.dims[i]
-	if dm.kind != dimBank || !p.faultAgrees {
+	if !p.faultAgrees {
 		return 0
 	}
-	key := [2]int{i, c}
-	if v, ok := p.faultInc[key]; ok {
-		return v
-	}
+	return p.faultInc[[2]int{i, c}]
+}
+
+// increment computes faultIncrement; infinite when no device in the
+// catalog breaks the fault current.
+func (p *problem) increment(i, c int) float64 {
+	dm := p.dims[i]
 	o := dm.opts[c]
 	fault := p.rules.Protection.FaultVoltage * float64(o.series) * o.battery.Voltage.Volts() /
 		(o.battery.Resistance.Ohms() * float64(o.series) / float64(o.parallel))
@@ -122,7 +133,6 @@ func (p *problem) faultIncrement(i, c int) float64 {
 		}
 		inc += least - p.comp.minDevice()
 	}
-	p.faultInc[key] = inc
 	return inc
 }
 
@@ -151,6 +161,14 @@ func (p *problem) checkFault() {
 		mine := p.rules.Protection.FaultVoltage * r.Bank.NominalVoltage() / (b.Battery.Resistance.Ohms() * float64(b.Series) / float64(b.Parallel))
 		if math.Abs(mine-f.Value) > 0.1 {
 			p.faultAgrees = false
+		}
+	}
+	// Every option's increment, before the workers read them.
+	for i, dm := range p.dims {
+		if dm.kind == dimBank {
+			for c := range dm.opts {
+				p.faultInc[[2]int{i, c}] = p.increment(i, c)
+			}
 		}
 	}
 }
@@ -228,7 +246,7 @@ func (p *problem) screenWith(comp *completer, combo []int, best float64) *evalua
 	ev.spec, ev.sys = spec, sys
 	// The completion only raises what light sized: if even its least
 	// cost cannot beat the best, the combination need not be checked.
-	if !math.IsInf(best, 1) && p.lowerBound(combo)-p.floor+comp.bound(sys, p.busFloor) >= best-costEps {
+	if !math.IsInf(best, 1) && p.parts(combo)+comp.bound(sys, p.busFloor) >= best-costEps {
 		ev.dearer = true
 		return ev
 	}
