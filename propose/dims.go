@@ -36,7 +36,10 @@ type dim struct {
 
 // option is one way of making a choice.
 type option struct {
-	cost  float64 // the parts' price; a part without one counts 0
+	cost float64 // the parts' price; a part without one counts 0
+	// inc is what the option adds to the completion's least cost beyond
+	// its floor (a bank's fault current, see problem.increment).
+	inc   float64
 	label string
 	// family and amount order options for the monotone premises: a bank
 	// of one battery in one series string, more in parallel; an array of
@@ -192,8 +195,8 @@ func linkDim(l *model.Link, cat *schema.Catalog) *dim {
 func sortOptions(opts []option) {
 	sort.SliceStable(opts, func(i, j int) bool {
 		a, b := opts[i], opts[j]
-		if a.cost != b.cost {
-			return a.cost < b.cost
+		if a.cost+a.inc != b.cost+b.inc {
+			return a.cost+a.inc < b.cost+b.inc
 		}
 		if a.family != b.family {
 			return a.family < b.family

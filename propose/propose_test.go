@@ -378,3 +378,50 @@ func TestPlaceErrors(t *testing.T) {
 		}
 	}
 }
+
+// TestBounds: the lower bounds that know a bank's fault current and a
+// combination's light wiring prune only what cannot beat the best: with
+// the floor alone, the search finds designs of the same cost.
+func TestBounds(t *testing.T) {
+	for _, h := range []string{"dunnock", "marram", "sanderling"} {
+		d, r := load(t, "../designs/hulls/"+h)
+		cat, _, err := d.Catalog()
+		if err != nil {
+			t.Fatal(err)
+		}
+		var costs [2]float64
+		for i, weak := range []bool{false, true} {
+			p, err := newProblem(d, cat, Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if weak {
+				p.weak = true
+				for _, dm := range p.dims {
+					was := ""
+					if dm.designer >= 0 {
+						was = dm.opts[dm.designer].label
+					}
+					for c := range dm.opts {
+						dm.opts[c].inc = 0
+					}
+					sortOptions(dm.opts)
+					for c, o := range dm.opts {
+						if o.label == was {
+							dm.designer = c
+						}
+					}
+				}
+			}
+			p.seed(r)
+			p.search()
+			if p.best == nil {
+				t.Fatalf("%s: no proposal", h)
+			}
+			costs[i] = p.best.cost
+		}
+		if math.Abs(costs[0]-costs[1]) > costEps {
+			t.Errorf("%s: the search costs its proposal at %.2f with its bounds and %.2f with the floor alone", h, costs[0], costs[1])
+		}
+	}
+}

@@ -30,11 +30,10 @@ type problem struct {
 	// floor is the least any completion costs (completer.floor), and
 	// busFloor the least its bus parts do.
 	floor, busFloor float64
-	// direct are the protected runs straight from each bank, faultInc the
-	// faultIncrement of each bank option, and faultAgrees whether it may
-	// be used.
+	// direct are the protected runs straight from each bank, and
+	// faultAgrees whether the fault current increment computes agreed with
+	// the Interrupting check's on the designer's design (option.inc).
 	direct      map[string][]string
-	faultInc    map[[2]int]float64
 	faultAgrees bool
 	comp        *completer
 	facts       *factBook
@@ -48,6 +47,9 @@ type problem struct {
 	cut      string
 
 	considered, evaluated int
+	// weak is true when the search bounds a combination's completion by
+	// its floor alone (for tests of the stronger bounds).
+	weak bool
 }
 
 // evaluation is one combination, completed and checked.
@@ -89,7 +91,7 @@ var energyChecks = []*checks.Check{checks.Autonomy, checks.VoyageFloor}
 func (p *problem) lowerBound(combo []int) float64 {
 	lb := p.parts(combo) + p.floor
 	for i, c := range combo {
-		lb += p.faultIncrement(i, c)
+		lb += p.dims[i].opts[c].inc
 	}
 	return lb
 }
@@ -103,21 +105,11 @@ func (p *problem) parts(combo []int) float64 {
 	return lb
 }
 
-// faultIncrement is how much more than the floor's cheapest devices the
+// increment is how much more than the floor's cheapest devices the
 // devices on the runs straight from a bank must cost when the bank is
 // option c of choice i: they must break the bank's whole fault current
-// (there is no conductor ahead of them), which a blade fuse does not. It
-// is zero for other choices, and when the fault current as computed here
-// did not agree with the Interrupting check's on the designer's design.
-func (p *problem) faultIncrement(i, c int) float64 {
-	if !p.faultAgrees {
-		return 0
-	}
-	return p.faultInc[[2]int{i, c}]
-}
-
-// increment computes faultIncrement; infinite when no device in the
-// catalog breaks the fault current.
+// (there is no conductor ahead of them), which a blade fuse does not.
+// Infinite when no device in the catalog breaks it.
 func (p *problem) increment(i, c int) float64 {
 	dm := p.dims[i]
 	o := dm.opts[c]
@@ -137,11 +129,10 @@ func (p *problem) increment(i, c int) float64 {
 }
 
 // checkFault records the runs straight from each bank that carry a
-// device, and whether the fault current faultIncrement computes agrees
+// device, and whether the fault current increment computes agrees
 // with the Interrupting check's on the designer's design.
 func (p *problem) checkFault() {
 	p.direct = map[string][]string{}
-	p.faultInc = map[[2]int]float64{}
 	for _, r := range p.sys0.Runs {
 		if r.Parent == nil && r.Role != model.PV && r.Spec.Protection != nil && r.UpNode.Kind == model.KindBank {
 			p.direct[r.Bank.Name] = append(p.direct[r.Bank.Name], r.Name)
@@ -163,11 +154,28 @@ func (p *problem) checkFault() {
 			p.faultAgrees = false
 		}
 	}
-	// Every option's increment, before the workers read them.
+	if !p.faultAgrees {
+		return
+	}
+	// Each bank option's increment, and the options sorted again by
+	// price and increment: the search reaches a combination only after
+	// those of a lower bound, which needs each choice's options in the
+	// order of what they add to it.
 	for i, dm := range p.dims {
-		if dm.kind == dimBank {
-			for c := range dm.opts {
-				p.faultInc[[2]int{i, c}] = p.increment(i, c)
+		if dm.kind != dimBank {
+			continue
+		}
+		for c := range dm.opts {
+			dm.opts[c].inc = p.increment(i, c)
+		}
+		var was option
+		if dm.designer >= 0 {
+			was = dm.opts[dm.designer]
+		}
+		sortOptions(dm.opts)
+		for c, o := range dm.opts {
+			if dm.designer >= 0 && o.label == was.label {
+				dm.designer = c
 			}
 		}
 	}
@@ -246,7 +254,7 @@ func (p *problem) screenWith(comp *completer, combo []int, best float64) *evalua
 	ev.spec, ev.sys = spec, sys
 	// The completion only raises what light sized: if even its least
 	// cost cannot beat the best, the combination need not be checked.
-	if !math.IsInf(best, 1) && p.parts(combo)+comp.bound(sys, p.busFloor) >= best-costEps {
+	if !math.IsInf(best, 1) && !p.weak && p.parts(combo)+comp.bound(sys, p.busFloor) >= best-costEps {
 		ev.dearer = true
 		return ev
 	}
