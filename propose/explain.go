@@ -47,7 +47,10 @@ func (p *problem) proposal(d *compiler.Design, designer *result.Result) *Proposa
 	default:
 		rep.Status = "proven"
 	}
-	if p.cut != "" {
+	switch {
+	case p.cut != "" && p.best == nil:
+		rep.Cut = fmt.Sprintf("the search stopped at %s after %d combinations, before any passed: that is no proof that nothing in the catalog passes", p.cut, p.considered)
+	case p.cut != "":
 		rep.Cut = fmt.Sprintf("the search stopped at %s after %d combinations; the proposal is the cheapest passing design found so far, not proven the cheapest", p.cut, p.considered)
 	}
 	if p.best == nil {

@@ -259,6 +259,19 @@ func TestTimeout(t *testing.T) {
 	if p.Spec == nil || p.Report.Proposed.Fail != 0 {
 		t.Error("a cut search lost the designer's passing design")
 	}
+	// A design that fails, cut before anything passes: none, and no claim
+	// that nothing would.
+	d, r = load(t, "../designs/hulls/brackenwell")
+	if cat, _, err = d.Catalog(); err != nil {
+		t.Fatal(err)
+	}
+	p, err = Propose(d, r, cat, Options{Until: past.Add(time.Second), Now: func() time.Time { return past.Add(time.Hour) }})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if p.Spec != nil || p.Report.Status != "none" || !strings.Contains(p.Report.Cut, "no proof that nothing in the catalog passes") {
+		t.Errorf("status %q, cut %q; want none, and no proof", p.Report.Status, p.Report.Cut)
+	}
 }
 
 // TestPremises checks the monotone premises the search prunes by on the

@@ -95,6 +95,9 @@ func ProposalStatus(pr *result.Proposal) string {
 	case "best-found":
 		return "the cheapest passing design found, not proven the cheapest: the search was cut"
 	case "none":
+		if pr.Cut != "" {
+			return "nothing found that passes every check before the search was cut"
+		}
 		return "nothing from the catalog passes every check"
 	}
 	return pr.Status
@@ -111,7 +114,7 @@ func SearchText(pr *result.Proposal) string {
 	if pr.Status == "none" {
 		return fmt.Sprintf("%s; %d reached, %d checked, the rest ruled out by failures found and the premises", all, s.Considered, s.Evaluated)
 	}
-	return fmt.Sprintf("%s; %d reached below the cost bound (the others cost more than the proposal), %d checked, the rest ruled out by failures found and the premises",
+	return fmt.Sprintf("%s; %d reached below the cost bound (the others cost no less than the proposal), %d checked, the rest ruled out by failures found and the premises",
 		all, s.Considered, s.Evaluated)
 }
 

@@ -11,7 +11,8 @@ type Proposal struct {
 	// Status is "proven" when the search completed: nothing in the
 	// catalog costs less and passes; "best-found" when the search was cut
 	// (see Cut) and the proposal is the cheapest found so far, not proven;
-	// "none" when no choice from the catalog passes (see Blocking).
+	// "none" when no choice from the catalog passes (see Blocking), or,
+	// with Cut, when none that passes was found before the search was cut.
 	Status string `json:"status"`
 	// Cut says why the search stopped before it completed, if it did.
 	Cut string `json:"cut,omitempty"`
