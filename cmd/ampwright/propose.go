@@ -110,6 +110,12 @@ func runPropose(opts *proposeOptions, dir string) error {
 		if err != nil {
 			return &exitError{code: exitInput, err: err}
 		}
+		// The file is checked as `ampwright check` checks it before it is
+		// written: a proposal that did not pass would be this command's
+		// fault, not the design's, and is not left behind.
+		if err := verifyProposal(d, target, b); err != nil {
+			return &exitError{code: exitInput, err: fmt.Errorf("internal error: the proposal for %s %v", target, err)}
+		}
 		if err := os.MkdirAll(filepath.Dir(target), 0o755); err != nil {
 			return &exitError{code: exitInput, err: fmt.Errorf("cannot write %s: %v", target, pathErr(err))}
 		}
@@ -117,16 +123,6 @@ func runPropose(opts *proposeOptions, dir string) error {
 			return &exitError{code: exitInput, err: fmt.Errorf("cannot write %s: %v", target, pathErr(err))}
 		}
 		rep.File = target
-		// The file is checked as `ampwright check` checks it: a proposal
-		// that did not pass would be this command's fault, not the
-		// design's.
-		vr, _, err := compiler.Compile(filepath.Dir(target))
-		switch {
-		case err != nil:
-			return &exitError{code: exitInput, err: fmt.Errorf("internal error: the proposal written to %s does not load: %v", target, err)}
-		case vr.Verdict() == result.Fail:
-			return &exitError{code: exitInput, err: fmt.Errorf("internal error: the proposal written to %s fails %s", target, failSummary(vr))}
-		}
 	}
 	if opts.format == "json" {
 		err = report.JSON(opts.stdout, rep)
@@ -153,6 +149,59 @@ func proposeInputError(opts *proposeOptions, dir string, err error) error {
 		return err
 	}
 	return &exitError{code: exitInput}
+}
+
+// verifyProposal compiles the proposal's CUE b as if written at target,
+// from the yard's module read into memory (its .cue files only, within the
+// compiler's bounds), and fails unless every check passes.
+func verifyProposal(d *compiler.Design, target string, b []byte) error {
+	root, err := filepath.Abs(d.Root)
+	if err != nil {
+		return err
+	}
+	abs, err := filepath.Abs(target)
+	if err != nil {
+		return err
+	}
+	files := map[string][]byte{}
+	err = filepath.WalkDir(root, func(p string, e os.DirEntry, err error) error {
+		if err != nil {
+			return err
+		}
+		if e.IsDir() {
+			if p != root && strings.HasPrefix(e.Name(), ".") {
+				return filepath.SkipDir
+			}
+			return nil
+		}
+		if !strings.HasSuffix(p, ".cue") || e.Type()&os.ModeSymlink != 0 {
+			return nil
+		}
+		rel, err := filepath.Rel(root, p)
+		if err != nil {
+			return err
+		}
+		if files[filepath.ToSlash(rel)], err = os.ReadFile(p); err != nil {
+			return err
+		}
+		return nil
+	})
+	if err != nil {
+		return err
+	}
+	rel, err := filepath.Rel(root, abs)
+	if err != nil {
+		return err
+	}
+	files[filepath.ToSlash(rel)] = b
+	vr, _, err := compiler.CompileFrom(filepath.ToSlash(filepath.Dir(rel)), &compiler.Source{Files: files, Label: filepath.ToSlash(root) + "/"})
+	switch {
+	case err != nil:
+		return fmt.Errorf("does not load: %v", err)
+	case vr.Verdict() == result.Fail:
+		return fmt.Errorf("fails %s", failSummary(vr))
+	}
+	return nil
 }
 
 // proposalTarget is the file -o names: FILE.cue, or DIR/<hull>.cue. Its
