@@ -244,8 +244,13 @@ func (p *problem) changes(best *evaluation, rep *result.Proposal, notes map[stri
 				continue
 			}
 			c := result.ProposalChange{Entry: dm.path, What: "bank", From: bankLabel(was.Series, was.Parallel, was.Battery.ID), To: o.label}
+			primary := p.sys0.Primary() != nil && p.sys0.Primary().Name == dm.name
 			c.Binds = bindsFor(best.findings, func(f result.Finding) bool {
-				return monotoneInBank[f.ID] && (f.Subject == dm.name || f.ID == result.CheckVoyageFloor || f.ID == result.CheckAutonomy)
+				// The voyage and autonomy are the primary bank's.
+				if f.ID == result.CheckVoyageFloor || f.ID == result.CheckAutonomy {
+					return primary
+				}
+				return monotoneInBank[f.ID] && f.Subject == dm.name
 			})
 			c.Smaller, c.SmallerFails = p.smallerOption(best, i)
 			add(c)

@@ -60,7 +60,8 @@ proven. The same inputs give the same proposal; ties go by name.
 DIR/<hull>.cue, in a directory of its own inside the yard's module: the
 hull's files merged, its other declarations kept with their comments, the
 chosen parts referred to in the catalog, each change commented. It is
-written to a temporary name and renamed, then checked as ` + "`ampwright check`" + ` would.
+checked as ` + "`ampwright check`" + ` would before it is written (to a temporary
+name, then renamed).
 
 Exit status: 0 when a proposal passes every check, 1 when nothing in the
 catalog passes (the checks no choice met are printed, with what would be
