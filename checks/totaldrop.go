@@ -87,6 +87,16 @@ func (m runSums) of(in *Input, x *model.Run, scenarios []string) [][24]float64 {
 	return at
 }
 
+// Together is the current each conductor on DC load l's way from its bank
+// carries when l runs, as wiring.totalDrop takes it: the loads beyond it
+// that run together with l (in the scenarios and hours l runs), at their
+// bank current. It depends on the loads and the topology alone, not on
+// conductor sizes, so a tool sizing conductors may keep it.
+func Together(in *Input, l *model.Load) func(*model.Run) float64 { return together(in, l, runSums{}) }
+
+// LoadClass is the voltage-drop class wiring.totalDrop holds DC load l to.
+func LoadClass(in *Input, l *model.Load) string { return loadClass(in, l) }
+
 // TotalDrop checks the voltage drop from the bank to each load, over every
 // run on the way and back.
 var TotalDrop = &Check{

@@ -22,6 +22,7 @@ import (
 	"errors"
 	"fmt"
 	"path/filepath"
+	"strings"
 
 	"cuelang.org/go/cue"
 	"cuelang.org/go/cue/build"
@@ -54,7 +55,10 @@ type Design struct {
 	pos map[string]token.Pos
 	// value is the design unified with the schema.
 	value cue.Value
-	// read returns an input file's contents as loaded.
+	// inst is the hull's package as loaded, its imports with it, and read
+	// reads its files: the catalog and a proposal's CUE are read from them
+	// (catalog.go, write.go).
+	inst *build.Instance
 	read func(string) ([]byte, error)
 	// home is the hull's package directory as its files' positions name it.
 	home string
@@ -108,6 +112,14 @@ type loaded struct {
 
 // read returns an input file's contents as they were loaded.
 func (l loaded) read(name string) ([]byte, error) {
+	// A file as cue/load names it, in the overlay.
+	if l.src != nil {
+		if rel, ok := strings.CutPrefix(filepath.ToSlash(name), l.src.root()+"/"); ok {
+			if b, ok := l.src.Files[rel]; ok {
+				return b, nil
+			}
+		}
+	}
 	rel, err := filepath.Rel(l.root, name)
 	if err != nil {
 		return nil, err
@@ -213,6 +225,7 @@ func loadIn(ec *evalContext, dir string, src *Source) (*Design, error) {
 		Rules: rules.Over(spec.Rules),
 		pos:   entryPositions(&validator{root: unified, data: data, home: inst.Dir}, inst.Files),
 		value: unified,
+		inst:  inst,
 		read:  l.read,
 		home:  inst.Dir,
 	}

@@ -42,7 +42,11 @@ func (c *validator) run() {
 	c.clean = c.root.Validate(cue.Concrete(true)) == nil
 	if c.clean {
 		c.out = &jsonWriter{}
-		c.walkClean(c.root, designShape.of(c.design))
+		var s *shape
+		if c.design.Exists() {
+			s = designShape.of(c.design)
+		}
+		c.walkClean(c.root, s)
 		return
 	}
 	c.walk(c.root)

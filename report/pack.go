@@ -121,7 +121,7 @@ func (p *pack) build() {
 	d.footer = p.footer
 	// Once a bound stops the drawing (doc.stop), the sections left are
 	// not drawn at all.
-	for _, section := range []func(){p.cover, p.findings, p.energy, p.solar, p.voyage, p.wiring, p.diagram, p.calcSheets, p.bom, p.cautions} {
+	for _, section := range []func(){p.cover, p.findings, p.energy, p.solar, p.voyage, p.wiring, p.diagram, p.calcSheets, p.bom, p.cautions, p.proposal} {
 		if d.stopped == nil {
 			section()
 		}
@@ -435,7 +435,11 @@ func (p *pack) cover() {
 	d.text(x, d.y+3.6, "Contents")
 	d.y += 5.5
 	p.contentsY = d.y
-	d.y += float64(len(packSections)) * 4.4
+	n := len(packSections)
+	if p.r.Proposal != nil {
+		n++
+	}
+	d.y += float64(n) * 4.4
 
 	d.y = max(d.y+2, d.bottom()-12)
 	d.font(regular, 7.5)
@@ -464,7 +468,11 @@ func (p *pack) drawContents() {
 	d := p.d
 	y := p.contentsY
 	d.font(regular, 9)
-	for _, s := range packSections {
+	sections := packSections
+	if p.r.Proposal != nil {
+		sections = append(sections[:len(sections):len(sections)], tocEntry{"proposal", "Appendix: proposal from the yard's catalog"})
+	}
+	for _, s := range sections {
 		d.text(d.left()+2, y+3.3, s.title)
 		d.text(d.left()+100, y+3.3, pageAlias(s.key))
 		y += 4.4

@@ -59,6 +59,9 @@ type Result struct {
 	System *System `json:"system,omitempty"`
 	// Problems are input errors; a Result with problems has no figures.
 	Problems []Problem `json:"problems,omitempty"`
+	// Proposal is the cheapest passing design from the yard's catalog,
+	// when it was asked for (ampwright pack --with-proposal).
+	Proposal *Proposal `json:"proposal,omitempty"`
 }
 
 // Identity names the design a result is for.

@@ -12,8 +12,9 @@ const module = "github.com/ampwright/ampwright"
 // the project's packages, the project packages it may import. Anything not
 // listed here may not import anything of the project's.
 var allowedImports = map[string][]string{
-	"cmd/ampwright": {"worker", "yard", "compiler", "report", "result", "checks", "schema"},
+	"cmd/ampwright": {"worker", "yard", "compiler", "propose", "report", "result", "checks", "schema"},
 	"worker":        {"yard", "compiler", "result"},
+	"propose":       {"compiler", "checks", "energy", "model", "schema", "schema/unit", "result"},
 	"yard":          {"compiler", "result", "schema"},
 	"compiler":      {"checks", "energy", "model", "schema", "schema/unit", "result"},
 	"checks":        {"energy", "energy/solar", "model", "schema", "schema/unit", "result"},
