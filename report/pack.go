@@ -26,6 +26,9 @@ type PackOptions struct {
 	// and returns a *PackBoundError, writing nothing.
 	MaxPages int
 	Deadline time.Time
+	// History is the commits that touched the design's inputs, for the
+	// cover (yard.History); empty, the cover says the pack has none.
+	History result.History
 }
 
 // PackBoundError is a pack that passed a bound of PackOptions while it
@@ -74,7 +77,7 @@ func Pack(w io.Writer, r *result.Result, opts PackOptions) error {
 	if err != nil {
 		return err
 	}
-	p := &pack{d: d, r: r, date: date.UTC(), dated: dated, sources: map[string]int{}}
+	p := &pack{d: d, r: r, date: date.UTC(), dated: dated, sources: map[string]int{}, changes: opts.History}
 	d.maxPages, d.deadline = opts.MaxPages, opts.Deadline
 	d.where = func() string { return p.section }
 	p.build()
@@ -96,6 +99,8 @@ type pack struct {
 	date    time.Time
 	dated   bool
 	section string
+	// changes is the design's history, for the cover.
+	changes result.History
 	// contentsY is where the cover's contents list goes.
 	contentsY float64
 	// sources numbers the source texts cited on the calculation sheets.
@@ -320,7 +325,9 @@ func (p *pack) cover() {
 		}
 		d.y += 0.6
 	}
-	d.y += 3
+	d.y += 1.5
+	p.history()
+	d.y += 1.5
 
 	// The verdict band.
 	c := r.Count()

@@ -495,3 +495,22 @@ func (r *Result) SortChecks() {
 		return a.Subject < b.Subject
 	})
 }
+
+// History is what git says of how a design came to be: the commits that
+// touched its input files, newest first, since the tag Since (or the last
+// few, without a tag); More is true when there were more than are listed.
+// It is shown on a pack's cover and is never part of a result: git's
+// answers are attached where they are shown.
+type History struct {
+	Since   string
+	Commits []Commit
+	More    bool
+}
+
+// Commit is one commit of a History.
+type Commit struct {
+	Commit  string
+	Time    int64 // committer time, Unix seconds
+	Author  string
+	Subject string
+}

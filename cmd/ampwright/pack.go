@@ -17,6 +17,7 @@ import (
 	"github.com/ampwright/ampwright/propose"
 	"github.com/ampwright/ampwright/report"
 	"github.com/ampwright/ampwright/result"
+	"github.com/ampwright/ampwright/yard"
 )
 
 const (
@@ -103,10 +104,10 @@ func runPack(opts *packOptions, dir string) error {
 	}
 
 	stop := watchOne(opts.stderr, dir, 0)
-	r, err := compileOne(dir)
+	r, d, err := yard.Compile(dir)
 	stop()
 	if err != nil {
-		if err := printProblems(opts.stderr, dir, r); err != nil {
+		if err := printProblems(opts.stderr, dir, brokenResult(dir, problemsOf(err))); err != nil {
 			return err
 		}
 		return &exitError{code: exitInput}
@@ -135,7 +136,7 @@ func runPack(opts *packOptions, dir string) error {
 	stop = watchOne(opts.stderr, dir, drawGrace)
 	defer stop()
 	var b bytes.Buffer
-	err = report.Pack(&b, r, report.PackOptions{PageSize: paper, Date: date, MaxPages: opts.maxPages, Deadline: time.Now().Add(lim.Timeout)})
+	err = report.Pack(&b, r, report.PackOptions{PageSize: paper, Date: date, MaxPages: opts.maxPages, Deadline: time.Now().Add(lim.Timeout), History: yard.History(d.Root, d.Files)})
 	var bound *report.PackBoundError
 	switch {
 	case errors.As(err, &bound) && bound.Time:
