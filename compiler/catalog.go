@@ -150,3 +150,18 @@ func importName(inst *build.Instance, p string) string {
 	}
 	return name
 }
+
+// catalogCurrency is the currency of the catalog the design imports (see
+// findCatalog), or "" when it imports none or the catalog gives none. The
+// catalog was built with the design, so this evaluates nothing new.
+func catalogCurrency(ctx *cue.Context, inst *build.Instance) string {
+	imp := findCatalog(inst)
+	if imp == nil {
+		return ""
+	}
+	s, err := ctx.BuildInstance(imp).LookupPath(cue.MakePath(cue.Str("currency"))).String()
+	if err != nil {
+		return ""
+	}
+	return s
+}

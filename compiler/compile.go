@@ -207,6 +207,15 @@ func loadIn(ec *evalContext, dir string, src *Source) (*Design, error) {
 		return nil, loadErrors(err)
 	}
 	fromCable(v, &spec)
+	// Prices are the catalog's: so is their currency.
+	if cur := catalogCurrency(ctx, inst); cur != "" {
+		if spec.Currency == "" {
+			spec.Currency = cur
+		} else if spec.Currency != cur {
+			p := cue.MakePath(cue.Str("currency"))
+			return nil, ErrorList{{Pos: v.dataPos(p), Path: "currency", Msg: fmt.Sprintf("%q differs from the catalog's currency %q, which its prices are in; give %q, or catalog.currency", spec.Currency, cur, cur)}}
+		}
+	}
 	rules, err := decodeDefaultRules(ec)
 	if err != nil {
 		return nil, err
