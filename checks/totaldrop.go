@@ -26,48 +26,76 @@ func loadClass(in *Input, l *model.Load) string {
 
 // together gives each conductor on load l's path the current of the loads
 // beyond it that run together with l: in the scenarios and hours l runs,
-// the most the others on at the same time draw with it.
-func together(in *Input, l *model.Load) func(*model.Run) float64 {
-	s := in.Sys
+// the most the others on at the same time draw with it. sums holds, run
+// by run, what the loads beyond draw in each scenario and hour, worked
+// out once for every load whose path crosses the run.
+func together(in *Input, l *model.Load, sums runSums) func(*model.Run) float64 {
+	scenarios := schema.Names(in.Design.Scenarios)
 	return func(x *model.Run) float64 {
-		names := x.Loads
-		if x.Role == model.Return {
-			names = s.LoadsThrough(x)
-		}
-		var loads []*model.Load
-		for _, n := range names {
-			if m := s.Load(n); m != nil {
-				loads = append(loads, m)
-			}
-		}
-		beyond := x.Bank != nil && x.Volts != x.Bank.Volts
-		at := func(m *model.Load) float64 {
-			if beyond {
-				return m.Current // the run lies beyond a converter, at the loads' own side
-			}
-			return energy.BankCurrent(s, m)
-		}
+		at := sums.of(in, x, scenarios)
 		var best float64
-		for _, sn := range schema.Names(in.Design.Scenarios) {
+		for i, sn := range scenarios {
 			if l.Spec.Hours[sn] <= 0 {
 				continue
 			}
 			for h := 0; h < 24; h++ {
-				if !energy.OnAt(l.Spec.Windows, h) {
-					continue
+				if energy.OnAt(l.Spec.Windows, h) {
+					best = max(best, at[i][h])
 				}
-				var sum float64
-				for _, m := range loads {
-					if m.Spec.Hours[sn] > 0 && energy.OnAt(m.Spec.Windows, h) {
-						sum += at(m)
-					}
-				}
-				best = max(best, sum)
 			}
 		}
 		return best
 	}
 }
+
+// runSums is, by run, the current the loads beyond it draw together in
+// each scenario (in name order) and hour.
+type runSums map[*model.Run][][24]float64
+
+func (m runSums) of(in *Input, x *model.Run, scenarios []string) [][24]float64 {
+	if at, ok := m[x]; ok {
+		return at
+	}
+	s := in.Sys
+	names := x.Loads
+	if x.Role == model.Return {
+		names = s.LoadsThrough(x)
+	}
+	beyond := x.Bank != nil && x.Volts != x.Bank.Volts
+	at := make([][24]float64, len(scenarios))
+	for _, n := range names {
+		ld := s.Load(n)
+		if ld == nil {
+			continue
+		}
+		draw := ld.Current // a run beyond a converter carries the loads' own current
+		if !beyond {
+			draw = energy.BankCurrent(s, ld)
+		}
+		for i, sn := range scenarios {
+			if ld.Spec.Hours[sn] <= 0 {
+				continue
+			}
+			for h := 0; h < 24; h++ {
+				if energy.OnAt(ld.Spec.Windows, h) {
+					at[i][h] += draw
+				}
+			}
+		}
+	}
+	m[x] = at
+	return at
+}
+
+// Together is the current each conductor on DC load l's way from its bank
+// carries when l runs, as wiring.totalDrop takes it: the loads beyond it
+// that run together with l (in the scenarios and hours l runs), at their
+// bank current. It depends on the loads and the topology alone, not on
+// conductor sizes, so a tool sizing conductors may keep it.
+func Together(in *Input, l *model.Load) func(*model.Run) float64 { return together(in, l, runSums{}) }
+
+// LoadClass is the voltage-drop class wiring.totalDrop holds DC load l to.
+func LoadClass(in *Input, l *model.Load) string { return loadClass(in, l) }
 
 // TotalDrop checks the voltage drop from the bank to each load, over every
 // run on the way and back.
@@ -93,12 +121,13 @@ Limit: by the load's own class, as in wiring.voltageDrop (default: 3 % for
 critical loads, 10 % for others, ABYC E-11 11.14.2.6): ABYC sizes a circuit
 for the drop at the device, so the runs on the way share the limit.`,
 	Run: func(in *Input, out *Report) {
+		sums := runSums{}
 		for _, l := range in.Sys.Loads {
 			r := l.Circuit
 			if r == nil || r.DropVoltage <= 0 {
 				continue
 			}
-			v, terms := in.Sys.PathDrop(r, together(in, l))
+			v, terms := in.Sys.PathDrop(r, together(in, l, sums))
 			pct := v / r.DropVoltage * 100
 			class := loadClass(in, l)
 			limit := model.DropLimit(in.Rules, class)

@@ -172,3 +172,20 @@ func BenchmarkPhases(b *testing.B) {
 		perHull(b)
 	})
 }
+
+// BenchmarkCompileReleased measures Compile of the example hulls one
+// after another, each released when done, as a fleet's worker compiles
+// them: the contexts (and the schema built in each) are reused.
+func BenchmarkCompileReleased(b *testing.B) {
+	hulls := []string{"marram", "dunnock", "brackenwell", "tystie", "sanderling"}
+	b.ReportAllocs()
+	i := 0
+	for b.Loop() {
+		_, d, err := Compile("../designs/hulls/" + hulls[i%len(hulls)])
+		if err != nil {
+			b.Fatal(err)
+		}
+		d.Release()
+		i++
+	}
+}

@@ -22,10 +22,10 @@ import (
 	"errors"
 	"fmt"
 	"path/filepath"
+	"strings"
 
 	"cuelang.org/go/cue"
 	"cuelang.org/go/cue/build"
-	"cuelang.org/go/cue/cuecontext"
 	cueerrors "cuelang.org/go/cue/errors"
 	"cuelang.org/go/cue/token"
 
@@ -55,10 +55,15 @@ type Design struct {
 	pos map[string]token.Pos
 	// value is the design unified with the schema.
 	value cue.Value
-	// read returns an input file's contents as loaded.
+	// inst is the hull's package as loaded, its imports with it, and read
+	// reads its files: the catalog and a proposal's CUE are read from them
+	// (catalog.go, write.go).
+	inst *build.Instance
 	read func(string) ([]byte, error)
 	// home is the hull's package directory as its files' positions name it.
 	home string
+	// ec is the context value was evaluated in, until Release.
+	ec *evalContext
 }
 
 // ReadInput returns the contents of one of the design's input files
@@ -75,6 +80,9 @@ func (d *Design) Position(path string) string {
 // posOf is the position of the entry at path, or of the nearest entry
 // that holds it.
 func (d *Design) posOf(path string) token.Pos {
+	if pos, ok := d.pos[path]; ok {
+		return pos // an entry's own path, as most findings give
+	}
 	p := cue.ParsePath(path)
 	if p.Err() != nil {
 		return d.pos[path]
@@ -104,6 +112,14 @@ type loaded struct {
 
 // read returns an input file's contents as they were loaded.
 func (l loaded) read(name string) ([]byte, error) {
+	// A file as cue/load names it, in the overlay.
+	if l.src != nil {
+		if rel, ok := strings.CutPrefix(filepath.ToSlash(name), l.src.root()+"/"); ok {
+			if b, ok := l.src.Files[rel]; ok {
+				return b, nil
+			}
+		}
+	}
 	rel, err := filepath.Rel(l.root, name)
 	if err != nil {
 		return nil, err
@@ -127,8 +143,29 @@ func loadPackage(dir string, src *Source) (loaded, error) {
 // LoadFrom is Load reading from src, where dir is the hull's directory
 // relative to the module root; with a nil src it reads the host file system.
 func LoadFrom(dir string, src *Source) (*Design, error) {
-	ctx := cuecontext.New()
+	ec, err := takeContext()
+	if err != nil {
+		return nil, err
+	}
+	d, err := loadIn(ec, dir, src)
+	if err != nil {
+		// Errors hold positions and text, nothing evaluated: the context
+		// is free for the next design.
+		ec.release()
+		return nil, err
+	}
+	d.ec = ec
+	return d, nil
+}
+
+func loadIn(ec *evalContext, dir string, src *Source) (*Design, error) {
+	ctx := ec.ctx
 	l, err := loadPackage(dir, src)
+	if l.src != nil {
+		for _, b := range l.src.Files {
+			ec.weight += len(b)
+		}
+	}
 	if err != nil {
 		var positioned cueerrors.Error
 		if l.inst == nil && !errors.As(err, &positioned) {
@@ -145,17 +182,13 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 	if !data.Exists() {
 		return nil, loadErrors(data.Err())
 	}
-	sch, err := schema.Build(ctx)
-	if err != nil {
-		return nil, fmt.Errorf("internal error: the embedded schema does not compile: %v", err)
-	}
 	// Data first, so that error paths name the design, not #Design. A
 	// hull that embeds the vendored #Design is unified again all the same:
 	// CUE does not close the structs of an embedded definition the way it
 	// closes a unified one, so a misspelt field would pass unseen.
-	unified := data.Unify(sch.LookupPath(schema.DesignPath))
+	unified := data.Unify(ec.design)
 
-	v := &validator{root: unified, data: data, home: inst.Dir, refs: &refResolver{ctx: ctx, inst: inst, data: data}}
+	v := &validator{root: unified, data: data, design: ec.design, home: inst.Dir, refs: &refResolver{ctx: ctx, inst: inst, data: data}}
 	v.run()
 	v.crossCheck()
 	if err := v.errs.Err(); err != nil {
@@ -163,15 +196,29 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 	}
 
 	var spec schema.Design
-	// Through JSON: about a third faster than cue.Value.Decode here, and
-	// the quantity types decode from their text either way.
-	if err := decodeJSON(unified, &spec); err != nil {
+	// Through the JSON the validator's walk wrote: CUE's own encoder would
+	// list (and sort) every struct's fields a second time, and the
+	// quantity types decode from their text either way.
+	b, err := v.out.bytes()
+	if err == nil {
+		err = json.Unmarshal(b, &spec)
+	}
+	if err != nil {
 		return nil, loadErrors(err)
 	}
 	fromCable(v, &spec)
-	var rules schema.Rulebook
-	if err := sch.LookupPath(schema.DefaultPath).Decode(&rules); err != nil {
-		return nil, fmt.Errorf("internal error: the default rulebook does not decode: %v", err)
+	// Prices are the catalog's: so is their currency.
+	if cur := catalogCurrency(ctx, inst); cur != "" {
+		if spec.Currency == "" {
+			spec.Currency = cur
+		} else if spec.Currency != cur {
+			p := cue.MakePath(cue.Str("currency"))
+			return nil, ErrorList{{Pos: v.dataPos(p), Path: "currency", Msg: fmt.Sprintf("%q differs from the catalog's currency %q, which its prices are in; give %q, or catalog.currency", spec.Currency, cur, cur)}}
+		}
+	}
+	rules, err := decodeDefaultRules(ec)
+	if err != nil {
+		return nil, err
 	}
 	errs := append(irradiationBounds(v, &spec), moduleEfficiency(v, &spec)...)
 	errs = append(errs, rulebookErrors(v, spec.Rules)...)
@@ -185,35 +232,13 @@ func LoadFrom(dir string, src *Source) (*Design, error) {
 		Hash:  hash,
 		Spec:  &spec,
 		Rules: rules.Over(spec.Rules),
-		pos:   entryPositions(&validator{root: unified, data: data, home: inst.Dir}),
+		pos:   entryPositions(&validator{root: unified, data: data, home: inst.Dir}, inst.Files),
 		value: unified,
+		inst:  inst,
 		read:  l.read,
 		home:  inst.Dir,
 	}
 	return d, nil
-}
-
-// entryPositions records where the design declares each named entry.
-func entryPositions(c *validator) map[string]token.Pos {
-	out := map[string]token.Pos{}
-	for _, group := range []string{"scenarios", "loads", "inverters", "arrays", "controllers", "chargers", "buses", "wiring", "banks", "links", "converters"} {
-		for _, name := range c.keys(group) {
-			p := cue.MakePath(cue.Str(group), cue.Str(name))
-			out[p.String()] = c.entryPos(p)
-		}
-	}
-	for _, group := range []string{"buses", "shunts", "wiring"} {
-		base := cue.MakePath(cue.Str("negative"), cue.Str(group))
-		for _, name := range c.keysAt(base) {
-			p := appendPath(base, name)
-			out[p.String()] = c.entryPos(p)
-		}
-	}
-	for _, top := range []string{"vessel", "site", "bank", "voyage", "autonomy", "negative"} {
-		p := cue.MakePath(cue.Str(top))
-		out[p.String()] = c.dataPos(p)
-	}
-	return out
 }
 
 // irradiationBounds rejects a month's irradiation above the clear-sky
@@ -260,15 +285,6 @@ func moduleEfficiency(v *validator, s *schema.Design) ErrorList {
 		}
 	}
 	return errs
-}
-
-// decodeJSON decodes a concrete value into x through its JSON form.
-func decodeJSON(v cue.Value, x any) error {
-	b, err := v.MarshalJSON()
-	if err != nil {
-		return err
-	}
-	return json.Unmarshal(b, x)
 }
 
 // fromCable gives a run cut from a catalog cable the cable's insulation

@@ -149,7 +149,8 @@ func compileWithin(t *testing.T, dir string) (*result.Result, error) {
 	}
 	ch := make(chan answer, 1)
 	go func() {
-		r, _, err := Compile(dir)
+		r, d, err := Compile(dir)
+		d.Release() // as a worker does: the next input reuses the context
 		ch <- answer{r, err}
 	}()
 	select {

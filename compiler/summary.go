@@ -29,6 +29,12 @@ func compile(dir string, src *Source) (*result.Result, *Design, error) {
 	if err != nil {
 		return nil, nil, err
 	}
+	return d.compile()
+}
+
+// compile runs the model, the energy analyses and every check over a
+// loaded design.
+func (d *Design) compile() (*result.Result, *Design, error) {
 	sys, issues := model.Build(d.Spec, d.Rules)
 	if len(issues) > 0 {
 		return nil, nil, d.modelErrors(issues)

@@ -21,23 +21,107 @@ import (
 // attribute, and CUE's own errors are reworded with the value, what was
 // expected and near matches.
 type validator struct {
-	root  cue.Value // the design unified with #Design
-	data  cue.Value // the design as written
-	refs  *refResolver
-	errs  ErrorList
-	quant map[string]bool // paths of quantity fields already reported
-	home  string          // the hull's package directory
+	root cue.Value // the design unified with #Design
+	// design is the schema's #Design, in the same context: what the
+	// shapes of a clean design's walk are worked out from.
+	design cue.Value
+	data   cue.Value // the design as written
+	refs   *refResolver
+	errs   ErrorList
+	quant  map[string]bool // paths of quantity fields already reported
+	home   string          // the hull's package directory
 	// clean is true when CUE finds no error in the whole design: the walk
-	// then only checks quantities, without asking CUE about every node.
+	// then only checks quantities, without asking CUE about every node,
+	// and writes the design to out.
 	clean bool
+	out   *jsonWriter
 }
 
 func (c *validator) run() {
 	c.quant = map[string]bool{}
 	c.clean = c.root.Validate(cue.Concrete(true)) == nil
+	if c.clean {
+		c.out = &jsonWriter{}
+		var s *shape
+		if c.design.Exists() {
+			s = designShape.of(c.design)
+		}
+		c.walkClean(c.root, s)
+		return
+	}
 	c.walk(c.root)
 }
 
+// walkClean is the one pass over a clean design: each quantity and number
+// is checked, and the design is written as JSON (c.out) for decoding. A
+// struct the schema fixes (s) is read field by field; only maps are
+// listed, since CUE sorts what it lists, at a cost (see shape).
+func (c *validator) walkClean(v cue.Value, s *shape) {
+	if s != nil && !s.known {
+		s = nil
+	}
+	if s != nil && s.hasQ {
+		c.quantity(v, s.q)
+		c.out.leaf(v)
+		return
+	}
+	if s == nil {
+		if a := v.Attribute("q"); a.Err() == nil {
+			c.quantity(v, a)
+			c.out.leaf(v)
+			return
+		}
+	}
+	switch k := v.IncompleteKind(); {
+	case k != cue.BottomKind && k&^cue.NumberKind == 0:
+		if v.IsConcrete() {
+			c.number(v)
+		}
+		c.out.leaf(v)
+	case k == cue.StructKind:
+		c.out.open('{')
+		if s != nil && s.kind == shapeFixed {
+			for i := range s.fields {
+				f := &s.fields[i]
+				if fv := v.LookupPath(f.at); fv.Exists() {
+					c.out.key(f.name)
+					c.walkClean(fv, f.shape.of(c.design))
+				}
+			}
+		} else if it, err := v.Fields(); err == nil {
+			for it.Next() {
+				sel := it.Selector()
+				if sel.LabelType() != cue.StringLabel {
+					continue
+				}
+				name := selName(sel)
+				c.out.key(name)
+				sub := s.field(name)
+				if sub != nil {
+					sub = sub.of(c.design)
+				}
+				c.walkClean(it.Value(), sub)
+			}
+		}
+		c.out.close('}')
+	case k == cue.ListKind:
+		var elem *shape
+		if s != nil && s.kind == shapeList && s.elem != nil {
+			elem = s.elem.of(c.design)
+		}
+		c.out.open('[')
+		for _, e := range elements(v) {
+			c.walkClean(e, elem)
+		}
+		c.out.close(']')
+	default:
+		c.out.leaf(v)
+	}
+}
+
+// walk visits v and everything below it in a design CUE finds errors in,
+// reporting each in the design's terms. A subtree CUE finds no error in
+// is left to walkClean, which only checks its quantities and numbers.
 func (c *validator) walk(v cue.Value) {
 	if a := v.Attribute("q"); a.Err() == nil {
 		c.quantity(v, a)
@@ -47,20 +131,17 @@ func (c *validator) walk(v cue.Value) {
 		c.number(v)
 		return
 	}
-	if !c.clean {
-		if own := c.ownErrors(v); len(own) > 0 {
-			c.report(v, own)
-			return
-		}
+	if own := c.ownErrors(v); len(own) > 0 {
+		c.report(v, own)
+		return
+	}
+	err := v.Validate(cue.Concrete(true))
+	if err == nil {
+		c.walkClean(v, nil)
+		return
 	}
 	n := len(c.errs)
-	opts := []cue.Option{cue.All()}
-	if c.clean {
-		// No field is missing in a clean design: the regular fields are
-		// all there is to visit.
-		opts = nil
-	}
-	if it, err := v.Fields(opts...); err == nil {
+	if it, ferr := v.Fields(cue.All()); ferr == nil {
 		for it.Next() {
 			sel := it.Selector()
 			if sel.LabelType() != cue.StringLabel {
@@ -80,26 +161,21 @@ func (c *validator) walk(v cue.Value) {
 			c.walk(e)
 		}
 	}
-	if c.clean {
-		return
-	}
 	// Errors CUE gives for this value that no field below reported: a
 	// field not allowed, say, can be the parent's error rather than the
 	// field's.
-	if err := v.Validate(cue.Concrete(true)); err != nil {
-		have := map[string]bool{}
-		for _, e := range c.errs[n:] {
-			have[e.Path] = true
+	have := map[string]bool{}
+	for _, e := range c.errs[n:] {
+		have[e.Path] = true
+	}
+	var rest []errors.Error
+	for _, e := range errors.Errors(err) {
+		if p := pathString(e.Path()); !have[p] && !c.quant[p] {
+			rest = append(rest, e)
 		}
-		var rest []errors.Error
-		for _, e := range errors.Errors(err) {
-			if p := pathString(e.Path()); !have[p] && !c.quant[p] {
-				rest = append(rest, e)
-			}
-		}
-		if len(rest) > 0 {
-			c.report(v, rest)
-		}
+	}
+	if len(rest) > 0 {
+		c.report(v, rest)
 	}
 }
 

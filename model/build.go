@@ -136,6 +136,10 @@ func (b *builder) declare() {
 			b.fail(p+".to", "link %q charges %q, which is not a bank", n, spec.To)
 		case l.From == l.To:
 			b.fail(p+".to", "link %q joins bank %q to itself", n, spec.From)
+		case spec.Open():
+			b.fail(p, "link %q has no part: give one from the catalog, or let `ampwright propose` choose one", n)
+		case spec.Kind != "" && spec.Part.Kind != spec.Kind:
+			b.fail(p+".part", "link %q is to be a %s, but its part %s is a %s", n, spec.Kind, spec.Part.ID, spec.Part.Kind)
 		}
 		s.Links = append(s.Links, l)
 	}

@@ -156,6 +156,16 @@ func TestWiringIssues(t *testing.T) {
 			c.Return = &schema.Return{To: "neg"}
 			d.Wiring["house-fridge"] = c
 		}, `wiring."house-fridge".return.to`, "draws no negative side"},
+		{"link left open", func(d *schema.Design) {
+			l := d.Links["dcdc"]
+			l.Part, l.Kind = schema.LinkPart{}, "dc-dc"
+			d.Links["dcdc"] = l
+		}, "links.dcdc", "has no part"},
+		{"link of another kind than asked", func(d *schema.Design) {
+			l := d.Links["dcdc"]
+			l.Kind = "combiner"
+			d.Links["dcdc"] = l
+		}, "links.dcdc.part", "is to be a combiner"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"sync"
 
 	"github.com/ampwright/ampwright/schema"
 	"github.com/ampwright/ampwright/schema/unit"
@@ -74,15 +75,33 @@ func (s *System) Temperature(c *schema.Conductor) float64 {
 // "10 AWG") for a conductor of the given area, mm².
 func LookupSize(table map[string]float64, area float64) (float64, string, bool) {
 	for _, k := range schema.Names(table) {
-		q, err := unit.ParseAs(k, unit.DimSize)
-		if err != nil {
+		a, ok := keyArea(k)
+		if !ok {
 			continue
 		}
-		if math.Abs(q.Value*1e6-area) <= 1e-3*area {
+		if math.Abs(a-area) <= 1e-3*area {
 			return table[k], k, true
 		}
 	}
 	return 0, "", false
+}
+
+// keyAreas caches the area, mm², of each size key of the rulebook's
+// tables: the wiring checks look sizes up many times a design.
+var keyAreas sync.Map // string → float64, or false when not a size
+
+func keyArea(k string) (float64, bool) {
+	if v, ok := keyAreas.Load(k); ok {
+		a, isSize := v.(float64)
+		return a, isSize
+	}
+	q, err := unit.ParseAs(k, unit.DimSize)
+	if err != nil {
+		keyAreas.Store(k, false)
+		return 0, false
+	}
+	keyAreas.Store(k, q.Value*1e6)
+	return q.Value * 1e6, true
 }
 
 // Ampacity is a conductor's allowable current and how it was found.
@@ -112,21 +131,35 @@ func (s *System) RunAmpacity(r *Run, size unit.Size) Ampacity {
 	return s.ampacityAt(r.Spec, size, r.Volts)
 }
 
+// ampacityRow is a row of the rulebook's ampacity table: its size key and
+// area, mm².
+type ampacityRow struct {
+	key  string
+	area float64
+}
+
+// ampacityRows are the rows of the ampacity table, thin to thick, parsed
+// once for the system: every wiring check asks for them.
+func (s *System) ampacityRows() []ampacityRow {
+	if s.ampRows != nil {
+		return s.ampRows
+	}
+	rows := []ampacityRow{}
+	for _, k := range schema.Names(s.Rules.Ampacity.Table) {
+		if q, err := unit.ParseAs(k, unit.DimSize); err == nil {
+			rows = append(rows, ampacityRow{k, q.Value * 1e6})
+		}
+	}
+	sort.Slice(rows, func(i, j int) bool { return rows[i].area < rows[j].area })
+	s.ampRows = rows
+	return rows
+}
+
 func (s *System) ampacityAt(c *schema.Conductor, size unit.Size, volts float64) Ampacity {
 	rules := s.Rules
 	a := Ampacity{Engine: 1, Bundle: 1}
 	area := size.MM2()
-	type row struct {
-		key  string
-		area float64
-	}
-	var rows []row
-	for _, k := range schema.Names(rules.Ampacity.Table) {
-		if q, err := unit.ParseAs(k, unit.DimSize); err == nil {
-			rows = append(rows, row{k, q.Value * 1e6})
-		}
-	}
-	sort.Slice(rows, func(i, j int) bool { return rows[i].area < rows[j].area })
+	rows := s.ampacityRows()
 	_, isAWG := size.AWG()
 	for _, r := range rows {
 		switch {
@@ -170,15 +203,33 @@ func (s *System) ampacityAt(c *schema.Conductor, size unit.Size, volts float64) 
 func RatingAtMost[V any](m map[string]V, t float64) string {
 	best, bestT := "", math.Inf(-1)
 	for _, k := range schema.Names(m) {
-		q, err := unit.ParseAs(k, unit.DimTemperature)
-		if err != nil {
+		v, ok := keyTemperature(k)
+		if !ok {
 			continue
 		}
-		if q.Value <= t+1e-9 && q.Value > bestT {
-			best, bestT = k, q.Value
+		if v <= t+1e-9 && v > bestT {
+			best, bestT = k, v
 		}
 	}
 	return best
+}
+
+// keyTemperatures caches the temperature, in the unit's SI value, of each
+// insulation-rating key of the rulebook's tables, as keyAreas the sizes.
+var keyTemperatures sync.Map // string → float64, or false
+
+func keyTemperature(k string) (float64, bool) {
+	if v, ok := keyTemperatures.Load(k); ok {
+		t, isTemp := v.(float64)
+		return t, isTemp
+	}
+	q, err := unit.ParseAs(k, unit.DimTemperature)
+	if err != nil {
+		keyTemperatures.Store(k, false)
+		return 0, false
+	}
+	keyTemperatures.Store(k, q.Value)
+	return q.Value, true
 }
 
 // DropLimit is the rulebook's voltage-drop limit for a class, percent.

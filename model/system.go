@@ -48,6 +48,9 @@ type System struct {
 	// by name.
 	Nodes     map[string]*Node
 	Negatives map[string]*Node
+
+	// ampRows caches the parsed rows of the ampacity table.
+	ampRows []ampacityRow
 }
 
 // Kind is what a node of the wiring is.

@@ -26,6 +26,9 @@ type PackOptions struct {
 	// and returns a *PackBoundError, writing nothing.
 	MaxPages int
 	Deadline time.Time
+	// History is the commits that touched the design's inputs, for the
+	// cover (yard.History); empty, the cover says the pack has none.
+	History result.History
 }
 
 // PackBoundError is a pack that passed a bound of PackOptions while it
@@ -74,7 +77,7 @@ func Pack(w io.Writer, r *result.Result, opts PackOptions) error {
 	if err != nil {
 		return err
 	}
-	p := &pack{d: d, r: r, date: date.UTC(), dated: dated, sources: map[string]int{}}
+	p := &pack{d: d, r: r, date: date.UTC(), dated: dated, sources: map[string]int{}, changes: opts.History}
 	d.maxPages, d.deadline = opts.MaxPages, opts.Deadline
 	d.where = func() string { return p.section }
 	p.build()
@@ -96,6 +99,8 @@ type pack struct {
 	date    time.Time
 	dated   bool
 	section string
+	// changes is the design's history, for the cover.
+	changes result.History
 	// contentsY is where the cover's contents list goes.
 	contentsY float64
 	// sources numbers the source texts cited on the calculation sheets.
@@ -121,7 +126,7 @@ func (p *pack) build() {
 	d.footer = p.footer
 	// Once a bound stops the drawing (doc.stop), the sections left are
 	// not drawn at all.
-	for _, section := range []func(){p.cover, p.findings, p.energy, p.solar, p.voyage, p.wiring, p.diagram, p.calcSheets, p.bom, p.cautions} {
+	for _, section := range []func(){p.cover, p.findings, p.energy, p.solar, p.voyage, p.wiring, p.diagram, p.calcSheets, p.bom, p.cautions, p.proposal} {
 		if d.stopped == nil {
 			section()
 		}
@@ -320,7 +325,9 @@ func (p *pack) cover() {
 		}
 		d.y += 0.6
 	}
-	d.y += 3
+	d.y += 1.5
+	p.history()
+	d.y += 1.5
 
 	// The verdict band.
 	c := r.Count()
@@ -435,7 +442,11 @@ func (p *pack) cover() {
 	d.text(x, d.y+3.6, "Contents")
 	d.y += 5.5
 	p.contentsY = d.y
-	d.y += float64(len(packSections)) * 4.4
+	n := len(packSections)
+	if p.r.Proposal != nil {
+		n++
+	}
+	d.y += float64(n) * 4.4
 
 	d.y = max(d.y+2, d.bottom()-12)
 	d.font(regular, 7.5)
@@ -464,7 +475,11 @@ func (p *pack) drawContents() {
 	d := p.d
 	y := p.contentsY
 	d.font(regular, 9)
-	for _, s := range packSections {
+	sections := packSections
+	if p.r.Proposal != nil {
+		sections = append(sections[:len(sections):len(sections)], tocEntry{"proposal", "Appendix: proposal from the yard's catalog"})
+	}
+	for _, s := range sections {
 		d.text(d.left()+2, y+3.3, s.title)
 		d.text(d.left()+100, y+3.3, pageAlias(s.key))
 		y += 4.4

@@ -58,7 +58,8 @@ func (p *pack) cite(s string) string {
 		n = len(p.sourceList)
 		p.sources[s] = n
 	}
-	return "S" + strconv.Itoa(n)
+	_, marks := provenance(s)
+	return "S" + strconv.Itoa(n) + marks
 }
 
 // calcItems groups the figures and findings for the sheets.
@@ -264,7 +265,7 @@ func (p *pack) calcBlock(it calcItem, dry bool) float64 {
 			r.val = []string{fnum(in.Value)}
 			r.unit = d.wrap(in.Unit, colW[2]-2)
 			d.font(mono, calcSize-0.5)
-			r.from = d.wrap(orDash(in.From), colW[3]-2)
+			r.from = d.wrap(orDash(marked(in.From)), colW[3]-2)
 			r.n = max(len(r.name), len(r.unit), len(r.from))
 			inputs = append(inputs, r)
 		}
@@ -428,13 +429,14 @@ func (p *pack) sourceSheet() {
 	d := p.d
 	p.sub("Sources cited", 20)
 	d.alias(pageAlias("sources"), strconv.Itoa(d.page()))
-	p.note(8, colMuted, "Marked “verify” where the rulebook itself says the value is recalled, common practice or from a secondary source: check it against the edition of the standard the yard works to.")
+	p.note(8, colMuted, "A source marked "+markRecalled+" (recalled), "+markCommon+" (common practice) or "+markSecond+" (secondary) is not the standard's own text: what each mark means, and what to do about it, is under Cautions, page "+pageAlias("cautions")+".")
 	d.y += 1
 	var rows []trow
 	for i, s := range p.sourceList {
-		row := cellsOf("S"+strconv.Itoa(i+1), s, "")
-		if needsVerifying(s) {
-			row.cells[2] = cell{s: "verify", bold: true, color: &colWarn}
+		text, marks := provenance(s)
+		row := cellsOf("S"+strconv.Itoa(i+1), text, "")
+		if marks != "" {
+			row.cells[2] = cell{s: marks, bold: true, color: &colWarn}
 		}
 		rows = append(rows, row)
 	}

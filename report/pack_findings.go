@@ -97,7 +97,7 @@ func (p *pack) findingBox(f result.Finding) {
 	add(bold, colInk, "Change", f.Change)
 	add(regular, colInk, "Value", fmt.Sprintf("%s %s limit %s; margin %s", qty(f.Value, f.Unit), relation(f), qty(f.Limit, f.Unit), qty(f.Margin, f.Unit)))
 	add(mono, colInk, "Position", f.Position)
-	add(regular, colMuted, "Limit from", f.Source)
+	add(regular, colMuted, "Limit from", marked(f.Source))
 
 	d.font(regular, size)
 	lh := d.lineH()

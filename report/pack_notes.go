@@ -68,12 +68,27 @@ func (p *pack) cautions() {
 		add(f.Source, string(f.ID))
 	}
 	d.y += 2
+	p.sub("Marks on sources", 16)
+	p.note(8.5, colInk, "The calculation sheets, the findings and the list of sources mark a value that does not come from a published text, instead of repeating a caveat beside it:")
+	d.y += 1
+	for _, m := range provenanceLegend {
+		d.need(8)
+		d.font(bold, 10)
+		d.textColor(colWarn)
+		d.text(d.left()+1, d.y+3.4, m[0])
+		d.textColor(colInk)
+		d.font(regular, 8.5)
+		y := d.y
+		d.para(d.left()+7, d.width()-7, m[1])
+		d.y = max(d.y, y+4.4) + 1
+	}
+	d.y += 2
 	p.sub("Rulebook values to verify", 16)
 	if len(uses) == 0 {
 		p.note(8.5, colMuted, "The rulebook marks no value as recalled, common practice or secondary.")
 		return
 	}
-	p.note(8.5, colInk, "The rulebook marks these values as recalled, common practice or taken from secondary sources. Verify each against the edition of the standard the yard works to before the design is approved.")
+	p.note(8.5, colInk, "The rulebook marks these values as recalled ("+markRecalled+"), common practice ("+markCommon+") or taken from secondary sources ("+markSecond+"), used by the checks and figures named. Verify each before the design is approved.")
 	d.y += 1
 	var srcs []string
 	for s := range uses {
@@ -87,7 +102,7 @@ func (p *pack) cautions() {
 			ids = append(ids, id)
 		}
 		sort.Strings(ids)
-		rows = append(rows, cellsOf(s, strings.Join(ids, ", ")))
+		rows = append(rows, cellsOf(marked(s), strings.Join(ids, ", ")))
 	}
 	d.table([]column{{head: "source as the rulebook gives it", w: 120}, {head: "used by", w: 60}}, rows, tableOpts{size: 7.5, title: "Rulebook values to verify", zebra: true})
 }

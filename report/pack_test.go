@@ -379,3 +379,29 @@ func TestPackBOMIncomplete(t *testing.T) {
 		t.Error("an incomplete total is not marked so")
 	}
 }
+
+// TestPackHistory: the cover lists the commits that touched the design's
+// inputs, at most historyRows of them and a count of the rest, and says
+// when there are none.
+func TestPackHistory(t *testing.T) {
+	t.Parallel()
+	r := fixture(t, "dunnock")
+	h := result.History{Since: "v2.1"}
+	for i := 0; i < historyRows+2; i++ {
+		h.Commits = append(h.Commits, result.Commit{Commit: strings.Repeat(string(rune('a'+i)), 40), Time: 1796000000 + int64(i), Author: "Tamsin Rowe", Subject: "change " + string(rune('A'+i))})
+	}
+	p := readPDF(t, render(t, r, PackOptions{History: h}))
+	cover := p.pages[0]
+	for _, want := range []string{"since v2.1", "change A", "Tamsin Rowe", "aaaaaaaa", "… and 2 more"} {
+		if !strings.Contains(cover, want) {
+			t.Errorf("the cover lacks %q:\n%s", want, cover)
+		}
+	}
+	if strings.Contains(cover, "change "+string(rune('A'+historyRows))) {
+		t.Errorf("the cover lists more than %d commits", historyRows)
+	}
+	p = readPDF(t, render(t, r, PackOptions{History: result.History{Since: "v2.1"}}))
+	if !strings.Contains(p.pages[0], "no commit since v2.1 touched") {
+		t.Errorf("a history with no commit is not said so:\n%s", p.pages[0])
+	}
+}

@@ -59,6 +59,9 @@ type Result struct {
 	System *System `json:"system,omitempty"`
 	// Problems are input errors; a Result with problems has no figures.
 	Problems []Problem `json:"problems,omitempty"`
+	// Proposal is the cheapest passing design from the yard's catalog,
+	// when it was asked for (ampwright pack --with-proposal).
+	Proposal *Proposal `json:"proposal,omitempty"`
 }
 
 // Identity names the design a result is for.
@@ -491,4 +494,23 @@ func (r *Result) SortChecks() {
 		}
 		return a.Subject < b.Subject
 	})
+}
+
+// History is what git says of how a design came to be: the commits that
+// touched its input files, newest first, since the tag Since (or the last
+// few, without a tag); More is true when there were more than are listed.
+// It is shown on a pack's cover and is never part of a result: git's
+// answers are attached where they are shown.
+type History struct {
+	Since   string
+	Commits []Commit
+	More    bool
+}
+
+// Commit is one commit of a History.
+type Commit struct {
+	Commit  string
+	Time    int64 // committer time, Unix seconds
+	Author  string
+	Subject string
 }

@@ -218,6 +218,17 @@ type Array struct {
 	// Standoff is the gap behind the modules; nil takes the rulebook's
 	// for the mount.
 	Standoff *unit.Length `json:"standoff,omitempty"`
+	// Place is the mounting place the array sits on, where the design
+	// names one.
+	Place *Place `json:"place,omitempty"`
+}
+
+// Place is a mounting place for modules and what it takes.
+type Place struct {
+	Name       string       `json:"name,omitempty"`
+	MaxModules int          `json:"maxModules,omitempty"`
+	Length     *unit.Length `json:"length,omitempty"`
+	Width      *unit.Length `json:"width,omitempty"`
 }
 
 // Controller is a charge controller fitted to the boat.
@@ -235,12 +246,17 @@ type Charger struct {
 	Description string             `json:"description,omitempty"`
 }
 
-// Link joins two banks.
+// Link joins two banks. A design may leave its part open (Part.Kind is
+// then ""), for `ampwright propose` to choose one of Kind, if given.
 type Link struct {
 	Part LinkPart `json:"part"`
+	Kind string   `json:"kind,omitempty"`
 	From string   `json:"from"`
 	To   string   `json:"to"`
 }
+
+// Open reports whether the design leaves the link's part to be chosen.
+func (l Link) Open() bool { return l.Part.Kind == "" }
 
 // Converter feeds loads at another voltage.
 type Converter struct {
@@ -482,6 +498,7 @@ type Terminal struct {
 // Busbar is a busbar, terminal block or fuse block.
 type Busbar struct {
 	Part
+	Kind    string        `json:"kind,omitempty"`
 	Rating  *unit.Current `json:"rating,omitempty"`
 	Studs   int           `json:"studs,omitempty"`
 	Ways    int           `json:"ways,omitempty"`

@@ -22,6 +22,8 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"runtime/debug"
+	"runtime/metrics"
 	"time"
 
 	"github.com/ampwright/ampwright/cache"
@@ -100,7 +102,42 @@ func Serve(in io.Reader, out io.Writer, lim compiler.Limits, cacheDir string) er
 		if err := w.Flush(); err != nil {
 			return err
 		}
+		gc.tune()
 	}
+}
+
+// heapTarget is the heap a worker lets grow between collections while
+// the hulls it compiles hold little: a hull's compilation allocates tens
+// of megabytes and keeps a few, so collecting only near this size spends
+// a fraction of the collector's time at Go's default, and keeps the
+// process within the fleet's memory target (docs/performance.md).
+const heapTarget = 64 << 20
+
+// gcTuner sets the collector's percentage after each hull so that the
+// heap peaks near heapTarget: the live heap (the reused contexts, see
+// compiler.Design.Release) grows and shrinks from hull to hull. GOGC in
+// the environment wins.
+type gcTuner struct {
+	off    bool
+	sample []metrics.Sample
+}
+
+var gc = &gcTuner{
+	off:    os.Getenv("GOGC") != "",
+	sample: []metrics.Sample{{Name: "/gc/heap/live:bytes"}},
+}
+
+func (t *gcTuner) tune() {
+	if t.off {
+		return
+	}
+	metrics.Read(t.sample)
+	if t.sample[0].Value.Kind() != metrics.KindUint64 {
+		return
+	}
+	live := max(t.sample[0].Value.Uint64(), 1<<20)
+	pct := int(heapTarget/live)*100 - 100
+	debug.SetGCPercent(min(max(pct, 100), 800))
 }
 
 func compile(req Request, revs *revisions, ch *cache.Cache) yard.Compiled {

@@ -89,6 +89,9 @@ func build(s Side, hull string, want Want, c *cache.Cache, g *compiler.Gathered)
 		}
 		return out
 	}
+	// Everything this takes from the design's CUE value is taken below:
+	// the context it was evaluated in can take the next hull.
+	defer d.Release()
 	line := result.FleetLineOf(hull, r)
 	store(c, g, kindResult, Compiled{Result: r, Files: d.Files})
 	store(c, g, kindLine, Compiled{Line: &line, Files: d.Files})

@@ -12,8 +12,9 @@ const module = "github.com/ampwright/ampwright"
 // the project's packages, the project packages it may import. Anything not
 // listed here may not import anything of the project's.
 var allowedImports = map[string][]string{
-	"cmd/ampwright": {"worker", "yard", "cache", "compiler", "report", "result", "checks", "schema"},
+	"cmd/ampwright": {"worker", "yard", "cache", "compiler", "propose", "report", "result", "checks", "schema"},
 	"worker":        {"yard", "cache", "compiler", "result"},
+	"propose":       {"compiler", "checks", "energy", "model", "schema", "schema/unit", "result"},
 	"yard":          {"cache", "compiler", "result", "schema"},
 	"cache":         {},
 	"compiler":      {"checks", "energy", "model", "schema", "schema/unit", "result"},

@@ -14,23 +14,27 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/ampwright/ampwright/compiler"
+	"github.com/ampwright/ampwright/propose"
 	"github.com/ampwright/ampwright/report"
 	"github.com/ampwright/ampwright/result"
+	"github.com/ampwright/ampwright/yard"
 )
 
 const (
-	flagPaper       = "paper"
-	flagRequirePass = "require-pass"
-	flagMaxPages    = "max-pages"
+	flagPaper        = "paper"
+	flagRequirePass  = "require-pass"
+	flagMaxPages     = "max-pages"
+	flagWithProposal = "with-proposal"
 )
 
 type packOptions struct {
-	out         string
-	paper       string
-	requirePass bool
-	maxPages    int
-	stdout      io.Writer
-	stderr      io.Writer
+	out          string
+	paper        string
+	requirePass  bool
+	maxPages     int
+	withProposal bool
+	stdout       io.Writer
+	stderr       io.Writer
 }
 
 func newPackCmd() *cobra.Command {
@@ -53,12 +57,17 @@ The same inputs give the same bytes. The pack is dated by SOURCE_DATE_EPOCH
 (Unix seconds) when it is set, else by the design's git commit time, else
 not dated (its PDF dates are then ` + report.PackEpoch.Format("2006-01-02") + `).
 
+With --with-proposal the pack ends with an appendix: the cheapest design
+from the yard's catalog that passes every check, beside this one (see
+` + "`ampwright propose`" + `; --timeout bounds its search).
+
 Exit status: 0 when every check passes or warns, 1 when a check fails,
 2 on an input or usage error or when FILE cannot be written.`,
 		Example: `  ampwright pack designs/hulls/dunnock -o dunnock.pdf
   ampwright pack designs/hulls/marram --paper letter -o marram.pdf
   ampwright pack --require-pass designs/hulls/brackenwell -o brackenwell.pdf
-  SOURCE_DATE_EPOCH=1767225600 ampwright pack designs/hulls/dunnock -o dunnock.pdf`,
+  SOURCE_DATE_EPOCH=1767225600 ampwright pack designs/hulls/dunnock -o dunnock.pdf
+  ampwright pack --with-proposal designs/hulls/brackenwell -o brackenwell.pdf`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			opts.stdout, opts.stderr = cmd.OutOrStdout(), cmd.ErrOrStderr()
@@ -69,6 +78,7 @@ Exit status: 0 when every check passes or warns, 1 when a check fails,
 	c.Flags().StringVar(&opts.paper, flagPaper, "a4", "paper size: a4|letter")
 	c.Flags().BoolVar(&opts.requirePass, flagRequirePass, false, "write no pack when a check fails")
 	c.Flags().IntVar(&opts.maxPages, flagMaxPages, 500, "write no pack that would have more pages than this")
+	c.Flags().BoolVar(&opts.withProposal, flagWithProposal, false, "add the cheapest passing design from the yard's catalog as an appendix")
 	_ = c.MarkFlagFilename(flagOut, "pdf")
 	_ = c.RegisterFlagCompletionFunc(flagPaper, func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
 		return []string{"a4", "letter"}, cobra.ShellCompDirectiveNoFileComp
@@ -94,13 +104,25 @@ func runPack(opts *packOptions, dir string) error {
 	}
 
 	stop := watchOne(opts.stderr, dir, 0)
-	r, err := compileOne(dir)
+	r, d, err := yard.Compile(dir)
 	stop()
 	if err != nil {
-		if err := printProblems(opts.stderr, dir, r); err != nil {
+		if err := printProblems(opts.stderr, dir, brokenResult(dir, problemsOf(err))); err != nil {
 			return err
 		}
 		return &exitError{code: exitInput}
+	}
+	if opts.withProposal {
+		// The search stops itself at until with the best it has; the
+		// watchdog, a little later, is for its memory and a search that
+		// does not.
+		until := time.Now().Add(compiler.DefaultLimits.Timeout)
+		stop := watchOne(opts.stderr, dir, drawGrace)
+		r.Proposal, err = proposalFor(dir, r, until)
+		stop()
+		if err != nil {
+			return &exitError{code: exitInput, err: err}
+		}
 	}
 	c := r.Count()
 	if c.Fail > 0 && opts.requirePass {
@@ -114,7 +136,7 @@ func runPack(opts *packOptions, dir string) error {
 	stop = watchOne(opts.stderr, dir, drawGrace)
 	defer stop()
 	var b bytes.Buffer
-	err = report.Pack(&b, r, report.PackOptions{PageSize: paper, Date: date, MaxPages: opts.maxPages, Deadline: time.Now().Add(lim.Timeout)})
+	err = report.Pack(&b, r, report.PackOptions{PageSize: paper, Date: date, MaxPages: opts.maxPages, Deadline: time.Now().Add(lim.Timeout), History: yard.History(d.Root, d.Files)})
 	var bound *report.PackBoundError
 	switch {
 	case errors.As(err, &bound) && bound.Time:
@@ -134,6 +156,24 @@ func runPack(opts *packOptions, dir string) error {
 		return &exitError{code: exitFail}
 	}
 	return report.Printf(opts.stdout, "wrote %s: %d checks pass, %d warn\n", opts.out, c.Pass, c.Warn)
+}
+
+// proposalFor searches the yard's catalog for the design's proposal, for
+// the pack's appendix.
+func proposalFor(dir string, r *result.Result, until time.Time) (*result.Proposal, error) {
+	d, err := compiler.Load(dir)
+	if err != nil {
+		return nil, err
+	}
+	cat, _, err := d.Catalog()
+	if err != nil {
+		return nil, err
+	}
+	p, err := propose.Propose(d, r, cat, propose.Options{Until: until})
+	if err != nil {
+		return nil, fmt.Errorf("%s: %v", dir, err)
+	}
+	return p.Report, nil
 }
 
 // paperSize maps --paper to the pack's page size.

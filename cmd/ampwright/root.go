@@ -110,6 +110,7 @@ nor the standards and local rules that apply to the boat.`,
   ampwright check --format json designs/hulls/*
   ampwright pack designs/hulls/marram -o marram.pdf
   ampwright diagram designs/hulls/tystie -o tystie.svg
+  ampwright propose designs/hulls/dunnock -o designs/hulls/dunnock-proposed
   ampwright fleet designs
   ampwright diff --base origin/main --format markdown designs
   ampwright explain wiring.voltageDrop
@@ -140,6 +141,7 @@ nor the standards and local rules that apply to the boat.`,
 		newFleetCmd(),
 		newExplainCmd(),
 		newPackCmd(),
+		newProposeCmd(),
 		newSchemaCmd(),
 		newVersionCmd(),
 		newWorkerCmd(),
