@@ -27,18 +27,26 @@ type Gathered struct {
 	Root string
 	// Label prefixes file names in messages (see Source.Label).
 	Label string
-	// Key is the SHA-256, in hex, of everything a compile of the design
-	// depends on besides ampwright itself: the embedded schema, how files
-	// and the design are named in messages (Label and Dir), and the name
-	// and contents of every file gathered. Two designs with the same key
-	// compile to the same result, byte for byte.
-	Key string
 
-	rel     string              // Dir relative to the module root, slash-separated
-	files   map[string][]byte   // by slash path relative to the module root
-	digests map[string][32]byte // the files' SHA-256, as keyed
+	rel     string            // Dir relative to the module root, slash-separated
+	files   map[string][]byte // by slash path relative to the module root
 	notUTF8 []string
 	dirs    []string // the directories the files were read from
+
+	keyed   sync.Once
+	digest  func(name string, b []byte) [32]byte // a Reader's, nil for none
+	key     string
+	digests map[string][32]byte // the files' SHA-256, as keyed
+}
+
+// Key is the SHA-256, in hex, of everything a compile of the design
+// depends on besides ampwright itself: the embedded schema, how files and
+// the design are named in messages (Label and Dir), and the name and
+// contents of every file gathered. Two designs with the same key compile
+// to the same result, byte for byte. It is computed when first asked for.
+func (g *Gathered) Key() string {
+	g.keyed.Do(g.computeKey)
+	return g.key
 }
 
 // Gather reads the files of the design in dir on disk through the guard,
@@ -57,9 +65,7 @@ func GatherFS(fsys fs.FS, dir, label string) (*Gathered, error) {
 	if err != nil {
 		return nil, err
 	}
-	g := &Gathered{Dir: dir, Label: label, rel: rel, files: ga.files, notUTF8: ga.notUTF8, dirs: ga.dirList()}
-	g.Key = g.key(nil)
-	return g, nil
+	return &Gathered{Dir: dir, Label: label, rel: rel, files: ga.files, notUTF8: ga.notUTF8, dirs: ga.dirList()}, nil
 }
 
 // GatherError is the error Compile reports for the design when Gather or
@@ -89,6 +95,7 @@ func (g *Gathered) Dirs() []string { return g.dirs }
 // Digest returns the SHA-256 of a gathered file, by its slash path
 // relative to the module root.
 func (g *Gathered) Digest(rel string) ([32]byte, bool) {
+	g.keyed.Do(g.computeKey)
 	d, ok := g.digests[rel]
 	return d, ok
 }
@@ -117,9 +124,11 @@ func (g *Gathered) load() (loaded, error) {
 // keyVersion changes when what the key covers changes.
 const keyVersion = "ampwright inputs 1"
 
-// key hashes what a compile of the files depends on. digest gives a file's
-// SHA-256, remembered across designs by a Reader; nil computes it.
-func (g *Gathered) key(digest func(name string, b []byte) [32]byte) string {
+// computeKey hashes what a compile of the files depends on. g.digest
+// gives a file's SHA-256, remembered across designs by a Reader; nil
+// computes it.
+func (g *Gathered) computeKey() {
+	digest := g.digest
 	h := sha256.New()
 	fmt.Fprintf(h, "%s\x00%x\x00%s\x00%s\x00%s\x00", keyVersion, schemaDigest(), g.Label, g.Dir, g.rel)
 	names := make([]string, 0, len(g.files))
@@ -140,7 +149,7 @@ func (g *Gathered) key(digest func(name string, b []byte) [32]byte) string {
 		fmt.Fprintf(h, "%s\x00%d\x00", name, len(b))
 		h.Write(d[:])
 	}
-	return hex.EncodeToString(h.Sum(nil))
+	g.key = hex.EncodeToString(h.Sum(nil))
 }
 
 // schemaDigest is the SHA-256 of the embedded schema's files.
@@ -168,21 +177,17 @@ func gatherDisk(dir string, r *Reader) (*Gathered, error) {
 	if !fi.IsDir() {
 		return nil, fmt.Errorf("design %s: not a directory; give the directory of a hull's package", dir)
 	}
-	root := moduleRoot(abs)
-	if root == "" {
-		root = abs
+	var root, label string
+	if r != nil {
+		root, label = r.rootOf(abs)
+	} else {
+		root, label = rootAndLabel(abs)
 	}
 	rel, err := filepath.Rel(root, abs)
 	if err != nil {
 		return nil, err
 	}
 	rel = filepath.ToSlash(rel)
-	label := displayName(root)
-	if label == "." {
-		label = ""
-	} else {
-		label += "/"
-	}
 	var fsys fs.FS
 	var digest func(string, []byte) [32]byte
 	if r == nil {
@@ -209,9 +214,23 @@ func gatherDisk(dir string, r *Reader) (*Gathered, error) {
 			return nil, err
 		}
 	}
-	g := &Gathered{Dir: dir, Root: root, Label: label, rel: rel, files: ga.files, notUTF8: ga.notUTF8, dirs: ga.dirList()}
-	g.Key = g.key(digest)
-	return g, nil
+	return &Gathered{Dir: dir, Root: root, Label: label, rel: rel, files: ga.files, notUTF8: ga.notUTF8, dirs: ga.dirList(), digest: digest}, nil
+}
+
+// rootAndLabel finds the module root of the design directory abs, and how
+// messages name the files under it.
+func rootAndLabel(abs string) (root, label string) {
+	root = moduleRoot(abs)
+	if root == "" {
+		root = abs
+	}
+	label = displayName(root)
+	if label == "." {
+		label = ""
+	} else {
+		label += "/"
+	}
+	return root, label
 }
 
 // withinTotals checks a design's files against the limits on all of them,
@@ -237,10 +256,34 @@ func withinTotals(files map[string][]byte) error {
 type Reader struct {
 	mu      sync.Mutex
 	modules map[string]*moduleMemo // by module root
+	roots   map[string][2]string   // a design directory's module root and label
 }
 
 // NewReader returns a Reader with nothing read yet.
-func NewReader() *Reader { return &Reader{modules: map[string]*moduleMemo{}} }
+func NewReader() *Reader {
+	return &Reader{modules: map[string]*moduleMemo{}, roots: map[string][2]string{}}
+}
+
+// rootOf is rootAndLabel, found once for the directories of a yard's
+// hulls, which share their parent's.
+func (r *Reader) rootOf(abs string) (root, label string) {
+	parent := filepath.Dir(abs)
+	r.mu.Lock()
+	known, ok := r.roots[parent]
+	r.mu.Unlock()
+	if ok {
+		if _, err := os.Stat(filepath.Join(abs, "cue.mod")); err != nil {
+			return known[0], known[1]
+		}
+	}
+	root, label = rootAndLabel(abs)
+	if root != abs {
+		r.mu.Lock()
+		r.roots[parent] = [2]string{root, label}
+		r.mu.Unlock()
+	}
+	return root, label
+}
 
 // Gather is Gather through r.
 func (r *Reader) Gather(dir string) (*Gathered, error) { return gatherDisk(dir, r) }

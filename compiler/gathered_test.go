@@ -51,8 +51,8 @@ func TestGatheredCompilesAsCompile(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if g2.Key != g.Key {
-				t.Errorf("a Reader keys %s as %s, Gather as %s", dir, g2.Key, g.Key)
+			if g2.Key() != g.Key() {
+				t.Errorf("a Reader keys %s as %s, Gather as %s", dir, g2.Key(), g.Key())
 			}
 		})
 	}
@@ -89,10 +89,10 @@ func TestGatheredKey(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if g2.Key != g.Key {
-			t.Fatalf("a Reader keys it %s, Gather %s", g2.Key, g.Key)
+		if g2.Key() != g.Key() {
+			t.Fatalf("a Reader keys it %s, Gather %s", g2.Key(), g.Key())
 		}
-		return g.Key
+		return g.Key()
 	}
 	k := key()
 	for _, step := range []struct {
@@ -121,7 +121,7 @@ func TestGatheredKey(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if g.Key == k {
+	if g.Key() == k {
 		t.Error("the same files under another label have the same key")
 	}
 }

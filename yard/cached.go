@@ -45,13 +45,13 @@ func store(ch *cache.Cache, g *compiler.Gathered, kind string, c Compiled) {
 		ch.Fail(err)
 		return
 	}
-	ch.Put(g.Key, kind, b)
+	ch.Put(g.Key(), kind, b)
 }
 
 // load reads one kind of entry for g, false when there is none that
 // checks out.
 func load(ch *cache.Cache, g *compiler.Gathered, kind string) (Compiled, bool) {
-	b, ok := ch.Get(g.Key, kind)
+	b, ok := ch.Get(g.Key(), kind)
 	if !ok {
 		return Compiled{}, false
 	}
