@@ -101,3 +101,28 @@ func BenchmarkDiffCompare(b *testing.B) {
 		rev.Close()
 	}
 }
+
+// BenchmarkCheck measures check of one example hull as `ampwright check`
+// does it (yard.Check, git's facts included): found in the result cache,
+// and compiled with the cache off.
+func BenchmarkCheck(b *testing.B) {
+	const dir = "../designs/hulls/tystie"
+	b.Run("cached", func(b *testing.B) {
+		ch := cache.Open(b.TempDir(), "bench", func(err error) { b.Fatal(err) })
+		if c := Check(dir, ch); !c.OK() {
+			b.Fatal(c.Problems)
+		}
+		for b.Loop() {
+			if c := Check(dir, ch); !c.OK() {
+				b.Fatal(c.Problems)
+			}
+		}
+	})
+	b.Run("off", func(b *testing.B) {
+		for b.Loop() {
+			if c := Check(dir, nil); !c.OK() {
+				b.Fatal(c.Problems)
+			}
+		}
+	})
+}
