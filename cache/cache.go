@@ -42,6 +42,13 @@ const magic = "ampwright result cache 1"
 // hundred kilobytes.
 const maxData = 256 << 20
 
+// gzips are compressors to reuse: each holds some hundreds of kilobytes of
+// tables, and a fleet's worker writes an entry for every hull.
+var gzips = sync.Pool{New: func() any {
+	zw, _ := gzip.NewWriterLevel(nil, gzip.BestSpeed)
+	return zw
+}}
+
 // Cache is a directory of entries. It is safe for concurrent use.
 type Cache struct {
 	dir  string
@@ -127,7 +134,9 @@ func (c *Cache) Put(key, kind string, data []byte) {
 
 func (c *Cache) put(name, key, kind string, data []byte) error {
 	var payload bytes.Buffer
-	zw, _ := gzip.NewWriterLevel(&payload, gzip.BestSpeed)
+	zw := gzips.Get().(*gzip.Writer)
+	defer gzips.Put(zw)
+	zw.Reset(&payload)
 	zw.Write(data)
 	if err := zw.Close(); err != nil {
 		return err

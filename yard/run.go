@@ -89,13 +89,18 @@ func build(s Side, hull string, want Want, c *cache.Cache, g *compiler.Gathered)
 		}
 		return out
 	}
-	// Everything this takes from the design's CUE value is taken below:
-	// the context it was evaluated in can take the next hull.
-	defer d.Release()
-	line := result.FleetLineOf(hull, r)
-	store(c, g, kindResult, Compiled{Result: r, Files: d.Files})
-	store(c, g, kindLine, Compiled{Line: &line, Files: d.Files})
 	out := Compiled{Files: d.Files}
+	if want == WantInputs {
+		out.Inputs, out.Entries, out.Own = d.InputOrigins()
+		out.Review = d.Rules.Review
+	}
+	// Everything this takes from the design's CUE value is taken: the
+	// context it was evaluated in can take the next hull, and is free
+	// while the entries are written.
+	d.Release()
+	line := result.FleetLineOf(hull, r)
+	store(c, g, kindResult, Compiled{Result: r, Files: out.Files})
+	store(c, g, kindLine, Compiled{Line: &line, Files: out.Files})
 	switch want {
 	case WantLine:
 		out.Line = &line
@@ -103,8 +108,6 @@ func build(s Side, hull string, want Want, c *cache.Cache, g *compiler.Gathered)
 		out.Result = r
 	case WantInputs:
 		out.Result = r
-		out.Inputs, out.Entries, out.Own = d.InputOrigins()
-		out.Review = d.Rules.Review
 		store(c, g, kindInputs, Compiled{Inputs: out.Inputs, Entries: out.Entries, Own: out.Own, Review: out.Review})
 	}
 	return out
