@@ -76,8 +76,10 @@ spread over the parallel jobs of a CI matrix; --merge combines the shards'
 JSON outputs into one fleet (the filters and --sort apply to it too), and
 renders a fleet's JSON again as text or Markdown without compiling.
 
-` + cacheHelp("Each hull's result") + ` A fleet looks every hull up before it
-starts a worker: a fleet of hulls all found compiles nothing.
+` + cacheHelp("Each hull's result") + `
+
+A fleet looks every hull up before it starts a worker: a fleet of hulls all
+found compiles nothing.
 
 A progress bar is shown on a terminal, never when the output is not a
 terminal or CI is set.

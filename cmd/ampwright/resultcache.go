@@ -4,7 +4,9 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"strings"
 	"time"
+	"unicode/utf8"
 
 	"github.com/spf13/cobra"
 
@@ -78,15 +80,29 @@ func workerCacheArg(c *cache.Cache) string {
 }
 
 // cacheHelp is the paragraph on the result cache in the help of the
-// commands that use it.
+// commands that use it; what says what is kept.
 func cacheHelp(what string) string {
-	return fmt.Sprintf(`%s is kept in a result cache, keyed by this
-build of ampwright, the schema and every input file of a hull (its files
-and everything it imports), so that a hull whose inputs have not changed is
-not compiled again; git's facts (the revision, whether the hull's files are
-committed) are asked afresh every time. The cache is ampwright in the user's
-cache directory (such as ~/.cache/ampwright), or --%s DIR (or
-$%s); --%s %s turns it off. An entry that does not check out is
-ignored and written again; a cache that cannot be written is reported once
-and the command goes on without it. Remove the directory to clear it.`, what, flagResultCache, envResultCache, flagResultCache, cacheOff)
+	return wrap(fmt.Sprintf("%s is kept in a result cache, keyed by this build of ampwright, the schema and every input file of a hull (its files and everything it imports), so that a hull whose inputs have not changed is not compiled again; git's facts (the revision, whether the hull's files are committed) are asked afresh every time. The cache is ampwright in the user's cache directory (such as ~/.cache/ampwright), or --%s DIR (or $%s); --%s %s turns it off. An entry that does not check out is ignored and written again; a cache that cannot be written is reported once and the command goes on without it. Remove the directory to clear it.",
+		what, flagResultCache, envResultCache, flagResultCache, cacheOff), 76)
+}
+
+// wrap breaks text into lines of at most width columns, between words.
+func wrap(text string, width int) string {
+	var b strings.Builder
+	col := 0
+	for _, w := range strings.Fields(text) {
+		n := utf8.RuneCountInString(w)
+		switch {
+		case col == 0:
+		case col+1+n > width:
+			b.WriteByte('\n')
+			col = 0
+		default:
+			b.WriteByte(' ')
+			col++
+		}
+		b.WriteString(w)
+		col += n
+	}
+	return b.String()
 }
