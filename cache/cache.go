@@ -105,17 +105,31 @@ func (c *Cache) Get(key, kind string) ([]byte, bool) {
 	if !c.On() {
 		return nil, false
 	}
-	name := c.name(key, kind)
-	p := c.path(name)
-	raw, err := os.ReadFile(p)
+	p := c.path(c.name(key, kind))
+	// Only a regular file the size an entry can be is read: the cache's
+	// directory is the user's, but a mistake should not hang (a FIFO) or
+	// flood.
+	if fi, err := os.Lstat(p); err != nil || !fi.Mode().IsRegular() {
+		return nil, false
+	}
+	f, err := os.Open(p)
 	if err != nil {
+		return nil, false
+	}
+	defer f.Close()
+	fi, err := f.Stat()
+	if err != nil || !fi.Mode().IsRegular() || fi.Size() > maxData {
+		return nil, false
+	}
+	raw := make([]byte, fi.Size())
+	if _, err := io.ReadFull(f, raw); err != nil {
 		return nil, false
 	}
 	data, err := c.decode(raw, key, kind)
 	if err != nil {
 		return nil, false
 	}
-	touch(p)
+	touch(p, fi)
 	return data, true
 }
 
@@ -229,9 +243,8 @@ func (c *Cache) decode(raw []byte, key, kind string) ([]byte, error) {
 }
 
 // touch marks an entry used, at most once an hour, so that Trim keeps it.
-func touch(p string) {
-	now := time.Now()
-	if fi, err := os.Stat(p); err == nil && now.Sub(fi.ModTime()) > time.Hour {
+func touch(p string, fi os.FileInfo) {
+	if now := time.Now(); now.Sub(fi.ModTime()) > time.Hour {
 		os.Chtimes(p, now, now)
 	}
 }
