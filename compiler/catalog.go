@@ -10,6 +10,8 @@ import (
 	"cuelang.org/go/cue"
 	"cuelang.org/go/cue/ast"
 	"cuelang.org/go/cue/build"
+	"cuelang.org/go/cue/literal"
+	"cuelang.org/go/cue/token"
 
 	"github.com/ampwright/ampwright/schema"
 )
@@ -152,16 +154,35 @@ func importName(inst *build.Instance, p string) string {
 }
 
 // catalogCurrency is the currency of the catalog the design imports (see
-// findCatalog), or "" when it imports none or the catalog gives none. The
-// catalog was built with the design, so this evaluates nothing new.
+// findCatalog), or "" when it imports none or the catalog gives none. A
+// catalog writes its currency as a string: it is read from the syntax,
+// since evaluating the whole catalog as a value of its own would cost a
+// tenth of a check; a currency the catalog computes is evaluated.
 func catalogCurrency(ctx *cue.Context, inst *build.Instance) string {
 	imp := findCatalog(inst)
 	if imp == nil {
 		return ""
 	}
-	s, err := ctx.BuildInstance(imp).LookupPath(cue.MakePath(cue.Str("currency"))).String()
-	if err != nil {
-		return ""
+	for _, f := range imp.Files {
+		for _, decl := range f.Decls {
+			fd, ok := decl.(*ast.Field)
+			if !ok {
+				continue
+			}
+			if name, ok := fieldName(fd.Label); !ok || name != "currency" {
+				continue
+			}
+			if lit, ok := fd.Value.(*ast.BasicLit); ok && lit.Kind == token.STRING {
+				if s, err := literal.Unquote(lit.Value); err == nil {
+					return s
+				}
+			}
+			s, err := ctx.BuildInstance(imp).LookupPath(cue.MakePath(cue.Str("currency"))).String()
+			if err != nil {
+				return ""
+			}
+			return s
+		}
 	}
-	return s
+	return ""
 }

@@ -21,6 +21,17 @@ func TestCurrencyFromCatalog(t *testing.T) {
 	if d.Spec.Currency != "GBP" {
 		t.Errorf("currency %q, want the catalog's GBP", d.Spec.Currency)
 	}
+	// A currency the catalog computes rather than writes.
+	const cat = "catalog/catalog.cue"
+	written := src.Files[cat]
+	src.Files[cat] = []byte(strings.Replace(string(written), `currency: "GBP"`, `currency: "G" + "BP"`, 1))
+	if string(src.Files[cat]) == string(written) {
+		t.Fatalf("%s does not write currency: \"GBP\"", cat)
+	}
+	if d, err := LoadFrom("hulls/good", src); err != nil || d.Spec.Currency != "GBP" {
+		t.Errorf("a computed catalog currency: %v, %v; want GBP", d, err)
+	}
+	src.Files[cat] = written
 	src.Files[hull] = append(append([]byte(nil), src.Files[hull]...), "\ncurrency: \"EUR\"\n"...)
 	_, err = LoadFrom("hulls/good", src)
 	if err == nil || !strings.Contains(err.Error(), `"EUR" differs from the catalog's currency "GBP"`) || !strings.Contains(err.Error(), "good.cue:") {

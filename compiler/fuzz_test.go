@@ -90,15 +90,12 @@ func FuzzLoad(f *testing.F) {
 	f.Add("package x\nrules: bundling: {source: \"s\", steps: [{from: 1, factor: 1}], minVoltage: 1e400}\n")
 	f.Add("package x\nvessel: name: \"ab\xff\xfecd\"\n")
 	f.Add("package x\nscenarios: a: hours: 12\nloads: l: hours: a: 24\n")
+	hull := scratchHull(f)
 	f.Fuzz(func(t *testing.T, src string) {
 		if len(src) > 1<<16 {
 			return
 		}
-		dir := t.TempDir()
-		if err := os.WriteFile(filepath.Join(dir, "hull.cue"), []byte(src), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		r, err := compileWithin(t, dir)
+		r, err := compileWithin(t, hull(t, src))
 		checkOutcome(t, r, err)
 	})
 }
@@ -121,6 +118,7 @@ func FuzzCompile(f *testing.F) {
 	f.Add(7, "Inf m")
 	f.Add(2, "**x** <img src=x> @octocat")
 	base := seedHull(f)
+	hull := scratchHull(f)
 	f.Fuzz(func(t *testing.T, n int, value string) {
 		if len(value) > 256 || n < 0 {
 			return
@@ -129,13 +127,26 @@ func FuzzCompile(f *testing.F) {
 		// Odd parts are inside quotes.
 		i := 1 + 2*(n%((len(parts)-1)/2))
 		parts[i] = strings.NewReplacer(`"`, `\"`, "\\", "\\\\", "\n", "\\n").Replace(value)
-		dir := t.TempDir()
-		if err := os.WriteFile(filepath.Join(dir, "hull.cue"), []byte(strings.Join(parts, `"`)), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		r, err := compileWithin(t, dir)
+		r, err := compileWithin(t, hull(t, strings.Join(parts, `"`)))
 		checkOutcome(t, r, err)
 	})
+}
+
+// scratchHull returns a function that writes a hull's one file into a
+// directory kept for the fuzzing process and returns the directory: a
+// fuzzing process runs its inputs one after another, and a directory
+// made and removed for each was a tenth of an input's time. (A compile
+// abandoned by compileWithin may still read it while the next input is
+// written; that input was skipped in any case.)
+func scratchHull(f *testing.F) func(t *testing.T, src string) string {
+	dir := f.TempDir()
+	file := filepath.Join(dir, "hull.cue")
+	return func(t *testing.T, src string) string {
+		if err := os.WriteFile(file, []byte(src), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return dir
+	}
 }
 
 // compileWithin compiles dir, skipping an input that takes longer than a

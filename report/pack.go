@@ -60,11 +60,25 @@ var PackEpoch = time.Date(2000, 1, 1, 0, 0, 0, 0, time.UTC)
 // bill of materials and the cautions. The same result and options give
 // the same bytes.
 func Pack(w io.Writer, r *result.Result, opts PackOptions) error {
+	p, err := drawPack(r, opts)
+	if err != nil {
+		return err
+	}
+	b, err := p.d.bytes()
+	if err != nil {
+		return fmt.Errorf("pack: %w", err)
+	}
+	_, err = w.Write(b)
+	return err
+}
+
+// drawPack draws the pack of r, not yet written.
+func drawPack(r *result.Result, opts PackOptions) (*pack, error) {
 	if r == nil {
-		return errors.New("pack: no result")
+		return nil, errors.New("pack: no result")
 	}
 	if len(r.Problems) > 0 {
-		return fmt.Errorf("pack: the design has %d input error(s); a pack needs a design that validates", len(r.Problems))
+		return nil, fmt.Errorf("pack: the design has %d input error(s); a pack needs a design that validates", len(r.Problems))
 	}
 	date, dated := opts.Date, !opts.Date.IsZero()
 	if !dated && r.Design.CommitTime > 0 {
@@ -75,21 +89,17 @@ func Pack(w io.Writer, r *result.Result, opts PackOptions) error {
 	}
 	d, err := newDoc(opts.PageSize, date)
 	if err != nil {
-		return err
+		return nil, err
 	}
 	p := &pack{d: d, r: r, date: date.UTC(), dated: dated, sources: map[string]int{}, changes: opts.History}
 	d.maxPages, d.deadline = opts.MaxPages, opts.Deadline
 	d.where = func() string { return p.section }
 	p.build()
+	p.layout.ended(d.page(), d.y, p.key)
 	if d.stopped != nil {
-		return d.stopped
+		return nil, d.stopped
 	}
-	b, err := d.bytes()
-	if err != nil {
-		return fmt.Errorf("pack: %w", err)
-	}
-	_, err = w.Write(b)
-	return err
+	return p, nil
 }
 
 // pack is a calculation pack being drawn.
@@ -101,6 +111,10 @@ type pack struct {
 	section string
 	// changes is the design's history, for the cover.
 	changes result.History
+	// key is the section being drawn, and layout what each page holds.
+	key    string
+	layout pageLayout
+	ended  bool // start has recorded where the page before ended
 	// contentsY is where the cover's contents list goes.
 	contentsY float64
 	// sources numbers the source texts cited on the calculation sheets.
@@ -134,11 +148,65 @@ func (p *pack) build() {
 }
 
 // start begins a section on a new page and lists it in the contents.
+// start begins a section: below the section before it when a third of
+// its page is left and the orientation is the same, else on a new page, so
+// that no page holds less than a third of a page but the last of a
+// section (before a landscape diagram, say, or at the end).
 func (p *pack) start(key, title string, landscape bool) {
+	d := p.d
 	p.section = title
-	p.d.addPage(landscape)
-	p.d.alias(pageAlias(key), strconv.Itoa(p.d.page()))
+	if d.page() <= 1 || d.landscape != landscape || d.bottom()-d.y < (d.bottom()-d.top)/3 {
+		// The page ends in the section before; the new one is this one's.
+		p.layout.ended(d.page(), d.y, p.key)
+		p.key, p.ended = key, true
+		d.addPage(landscape)
+	} else {
+		d.y += 6
+	}
+	p.key = key
+	p.layout.note(d.page(), key)
+	d.alias(pageAlias(key), strconv.Itoa(d.page()))
 	p.heading(title)
+}
+
+// pageLayout records, page by page, how much of its body was drawn and
+// the sections drawn on it, for the test that no page is left near empty.
+type pageLayout struct {
+	pages []pageUse // by page, from 1
+}
+
+type pageUse struct {
+	landscape   bool
+	top, bottom float64  // the body's bounds
+	end         float64  // the cursor when the page ended
+	sections    []string // the sections drawn on it, in order
+}
+
+// filled is the share of the page's body drawn.
+func (u pageUse) filled() float64 { return (u.end - u.top) / (u.bottom - u.top) }
+
+func (l *pageLayout) at(page int) *pageUse {
+	for len(l.pages) < page {
+		l.pages = append(l.pages, pageUse{})
+	}
+	return &l.pages[page-1]
+}
+
+// note records that section key is drawn on page.
+func (l *pageLayout) note(page int, key string) {
+	u := l.at(page)
+	if n := len(u.sections); n == 0 || u.sections[n-1] != key {
+		u.sections = append(u.sections, key)
+	}
+}
+
+// ended records where page ended, in section key.
+func (l *pageLayout) ended(page int, y float64, key string) {
+	if page < 1 {
+		return
+	}
+	l.at(page).end = y
+	l.note(page, key)
 }
 
 // pageAlias is the placeholder that reads as a section's first page.
@@ -177,6 +245,15 @@ func (p *pack) note(size float64, c rgb, s string) {
 
 func (p *pack) header() {
 	d := p.d
+	// The cursor is still where the page before ended, unless start has
+	// recorded it.
+	if !p.ended {
+		p.layout.ended(d.page()-1, d.y, p.key)
+	}
+	p.ended = false
+	u := p.layout.at(d.page())
+	u.top, u.bottom, u.landscape = d.top, d.bottom(), d.landscape
+	p.layout.note(d.page(), p.key)
 	if d.page() == 1 {
 		return
 	}
@@ -249,7 +326,7 @@ func (p *pack) revision() string {
 func (p *pack) cover() {
 	d, r := p.d, p.r
 	id := r.Design
-	p.section = "Cover"
+	p.section, p.key = "Cover", "cover"
 	d.addPage(false)
 	x, w := d.left(), d.width()
 

@@ -28,5 +28,6 @@ func (p *pack) diagram() {
 			d.textColor(colInk)
 		}
 		drawSheet(d, sh, d.left(), d.y)
+		d.y += sh.h // the sheet is drawn at fixed places: the cursor follows
 	}
 }

@@ -405,3 +405,46 @@ func TestPackHistory(t *testing.T) {
 		t.Errorf("a history with no commit is not said so:\n%s", p.pages[0])
 	}
 }
+
+// TestPackPagesFilled: no page of an example's pack holds less than a
+// third of its body unless it is the last page of its section (issue 15),
+// and then only where the next section turns the paper (the landscape
+// diagram): a short section follows the one before on its page.
+func TestPackPagesFilled(t *testing.T) {
+	t.Parallel()
+	for _, hull := range []string{"dunnock", "marram", "brackenwell", "tystie", "sanderling"} {
+		for _, paper := range []string{"A4", "Letter"} {
+			p, err := drawPack(fixture(t, hull), PackOptions{PageSize: paper})
+			if err != nil {
+				t.Fatal(err)
+			}
+			pages := p.layout.pages
+			if len(pages) != p.d.page() {
+				t.Fatalf("%s: %d pages recorded of %d", hull, len(pages), p.d.page())
+			}
+			for i, u := range pages {
+				if u.filled() >= 1.0/3 || i == len(pages)-1 {
+					continue
+				}
+				last := u.sections[len(u.sections)-1]
+				if contains(pages[i+1].sections, last) {
+					t.Errorf("%s (%s): page %d holds %.0f %% of a page and section %q goes on to page %d", hull, paper, i+1, 100*u.filled(), last, i+2)
+				}
+				// Stricter than the rule: the next section does not
+				// follow on the page only where it turns the paper.
+				if pages[i+1].landscape == u.landscape {
+					t.Errorf("%s (%s): page %d holds %.0f %% of a page, and the section after it starts a page of its own", hull, paper, i+1, 100*u.filled())
+				}
+			}
+		}
+	}
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}
