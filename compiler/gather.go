@@ -8,6 +8,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 	"unicode/utf8"
 
 	"cuelang.org/go/cue/parser"
@@ -29,26 +30,31 @@ import (
 // turn their bytes into U+FFFD, and each is an input error at its first
 // bad byte.
 func gather(fsys fs.FS, dir, label string) (files map[string][]byte, notUTF8 []string, err error) {
-	g := &gatherer{fsys: fsys, files: map[string][]byte{}, dirs: map[string]bool{}, pkgs: map[string]bool{}}
-	mod, err := g.optional(modFile)
+	g, err := gatherAll(fsys, dir, label)
 	if err != nil {
 		return nil, nil, err
 	}
+	return g.files, g.notUTF8, nil
+}
+
+// gatherAll is gather, giving the gatherer: its files and the directories
+// it read them from.
+func gatherAll(fsys fs.FS, dir, label string) (*gatherer, error) {
+	g := &gatherer{fsys: fsys, files: map[string][]byte{}, dirs: map[string]bool{}, pkgs: map[string]bool{}}
+	mod, err := g.optional(modFile)
+	if err != nil {
+		return nil, err
+	}
 	if mod != nil {
-		if mf, err := modfile.ParseNonStrict(mod, modFile); err == nil {
-			g.modPath = mf.QualifiedModule()
-			if i := strings.IndexByte(g.modPath, '@'); i >= 0 {
-				g.modPath = g.modPath[:i]
-			}
-		}
+		g.modPath = modulePath(mod)
 		// cue/load would read the replacements' directories, which may lie
 		// anywhere on the host.
 		if _, err := fs.Stat(fsys, localModFile); err == nil || !errors.Is(err, fs.ErrNotExist) {
-			return nil, nil, fmt.Errorf("%s%s: module replacements are not supported; ampwright reads nothing outside the design's module", label, localModFile)
+			return nil, fmt.Errorf("%s%s: module replacements are not supported; ampwright reads nothing outside the design's module", label, localModFile)
 		}
 	}
 	if err := g.dirFiles(vendoredDir); err != nil {
-		return nil, nil, err
+		return nil, err
 	}
 	queue := []string{dir}
 	for len(queue) > 0 {
@@ -56,18 +62,51 @@ func gather(fsys fs.FS, dir, label string) (files map[string][]byte, notUTF8 []s
 		queue = queue[1:]
 		imports, err := g.pkg(d)
 		if err != nil {
-			return nil, nil, err
+			return nil, err
 		}
 		queue = append(queue, imports...)
 	}
 	sort.Strings(g.notUTF8)
-	return g.files, g.notUTF8, nil
+	return g, nil
+}
+
+// modulePaths remembers the module path of each module file read: parsing
+// one evaluates CUE, and a fleet gathers every hull of the same module.
+var modulePaths sync.Map // module file's contents → its path
+
+// modulePath is the path a module file declares, without a major
+// version, or "" when it does not parse.
+func modulePath(mod []byte) string {
+	if p, ok := modulePaths.Load(string(mod)); ok {
+		return p.(string)
+	}
+	var p string
+	if mf, err := modfile.ParseNonStrict(mod, modFile); err == nil {
+		p = mf.QualifiedModule()
+		if i := strings.IndexByte(p, '@'); i >= 0 {
+			p = p[:i]
+		}
+	}
+	modulePaths.Store(string(mod), p)
+	return p
 }
 
 const (
 	modFile      = "cue.mod/module.cue"
 	localModFile = "cue.mod/local-module.cue"
 )
+
+// cueLister is a file system that lists a directory's .cue entries alone
+// (guardFS).
+type cueLister interface {
+	cueEntries(dir string) ([]fs.DirEntry, error)
+}
+
+// importMemo is a file system that remembers the imports of the files it
+// keeps (memoFS): the catalog's, read for every hull of a fleet.
+type importMemo interface {
+	imports(name string, find func() []string) []string
+}
 
 // vendoredDir is where a yard vendors the schema.
 var vendoredDir = "cue.mod/pkg/" + schema.ImportPath
@@ -79,6 +118,19 @@ type gatherer struct {
 	dirs    map[string]bool // directories whose files are read
 	pkgs    map[string]bool // package directories whose imports are followed
 	notUTF8 []string        // files that are not UTF-8 text
+}
+
+// dirList lists the directories the gatherer read, with cue.mod, which
+// holds the module file, sorted.
+func (g *gatherer) dirList() []string {
+	out := []string{"cue.mod"}
+	for d := range g.dirs {
+		if d != "cue.mod" {
+			out = append(out, d)
+		}
+	}
+	sort.Strings(out)
+	return out
 }
 
 // optional reads a file that may be missing.
@@ -121,8 +173,14 @@ func (g *gatherer) pkg(d string) ([]string, error) {
 		}
 	}
 	var imports []string
+	memo, _ := g.fsys.(importMemo)
 	for name, b := range g.files {
-		if chain[path.Dir(name)] {
+		if !chain[path.Dir(name)] {
+			continue
+		}
+		if memo != nil {
+			imports = append(imports, memo.imports(name, func() []string { return g.importDirs(name, b) })...)
+		} else {
 			imports = append(imports, g.importDirs(name, b)...)
 		}
 	}
@@ -138,7 +196,13 @@ func (g *gatherer) dirFiles(d string) error {
 		return nil
 	}
 	g.dirs[d] = true
-	entries, err := fs.ReadDir(g.fsys, d)
+	var entries []fs.DirEntry
+	var err error
+	if l, ok := g.fsys.(cueLister); ok {
+		entries, err = l.cueEntries(d)
+	} else {
+		entries, err = fs.ReadDir(g.fsys, d)
+	}
 	if errors.Is(err, fs.ErrNotExist) {
 		return nil
 	}

@@ -6,6 +6,7 @@ import (
 	"io"
 	"io/fs"
 	"os"
+	"path"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -248,6 +249,37 @@ func (g *guardFS) ReadDir(name string) ([]fs.DirEntry, error) {
 		return nil, g.refuse(name, err)
 	}
 	return sortEntries(entries), nil
+}
+
+// cueEntries lists the entries of a directory that gather reads: its .cue
+// files, as ReadDir describes them, without describing every other entry
+// (the directory of the hulls holds one for each).
+func (g *guardFS) cueEntries(name string) ([]fs.DirEntry, error) {
+	name, err := g.check("readdir", name)
+	if err != nil {
+		return nil, err
+	}
+	f, err := g.root.Open(name)
+	if err != nil {
+		return nil, g.refuse(name, err)
+	}
+	defer f.Close()
+	names, err := f.Readdirnames(-1)
+	if err != nil {
+		return nil, g.refuse(name, err)
+	}
+	var out []fs.DirEntry
+	for _, n := range names {
+		if !strings.HasSuffix(n, ".cue") {
+			continue
+		}
+		fi, err := g.root.Lstat(path.Join(name, n))
+		if err != nil {
+			continue // gone since it was listed, as ReadDir would leave it
+		}
+		out = append(out, fs.FileInfoToDirEntry(fi))
+	}
+	return sortEntries(out), nil
 }
 
 // Stat describes a path, following links inside the module.

@@ -10,15 +10,41 @@ import (
 // CUE path, as CUE prints it: what a reviewer compares between revisions.
 func (d *Design) Inputs() map[string]string {
 	out := map[string]string{}
+	d.eachInput(func(p string, v cue.Value) { out[p] = valueText(v) })
+	return out
+}
+
+// InputOrigins is Inputs with, for each input, the entry it belongs to
+// (Entry) and whether the hull's own files write it (WrittenInHull), in
+// one walk over the design.
+func (d *Design) InputOrigins() (inputs, entries map[string]string, own map[string]bool) {
+	inputs, entries, own = map[string]string{}, map[string]string{}, map[string]bool{}
+	d.eachInput(func(p string, v cue.Value) {
+		inputs[p] = valueText(v)
+		entries[p] = d.entryOf(v.Path().Selectors(), p)
+		if d.ownPos(v) {
+			own[p] = true
+		}
+	})
+	return inputs, entries, own
+}
+
+// eachInput calls f with every concrete value of the design and its path.
+func (d *Design) eachInput(f func(p string, v cue.Value)) {
 	var walk func(v cue.Value)
 	walk = func(v cue.Value) {
-		if it, err := v.Fields(); err == nil {
-			for it.Next() {
-				walk(it.Value())
+		kind := v.IncompleteKind()
+		// Fields of a value that is not a struct is an error, and an
+		// error costs more than asking.
+		if kind&cue.StructKind != 0 {
+			if it, err := v.Fields(); err == nil {
+				for it.Next() {
+					walk(it.Value())
+				}
+				return
 			}
-			return
 		}
-		if elems := elements(v); v.IncompleteKind() == cue.ListKind {
+		if elems := elements(v); kind == cue.ListKind {
 			for _, e := range elems {
 				walk(e)
 			}
@@ -27,10 +53,9 @@ func (d *Design) Inputs() map[string]string {
 		if !v.IsConcrete() {
 			return
 		}
-		out[v.Path().String()] = valueText(v)
+		f(v.Path().String(), v)
 	}
 	walk(d.value)
-	return out
 }
 
 // Entry names the entry of the design that the input at p (a CUE path
@@ -39,7 +64,11 @@ func (d *Design) Inputs() map[string]string {
 // (rules.voltageDrop), or else the path's first label (bank, vessel,
 // site). A diff shows one row an entry.
 func (d *Design) Entry(p string) string {
-	sels := cue.ParsePath(p).Selectors()
+	return d.entryOf(cue.ParsePath(p).Selectors(), p)
+}
+
+// entryOf is Entry for the path p whose selectors are sels.
+func (d *Design) entryOf(sels []cue.Selector, p string) string {
 	if len(sels) == 0 {
 		return p
 	}
@@ -58,9 +87,11 @@ func (d *Design) Entry(p string) string {
 // schema. It is false when the design has no value there.
 func (d *Design) WrittenInHull(p string) bool {
 	v := d.value.LookupPath(cue.ParsePath(p))
-	if !v.Exists() {
-		return false
-	}
+	return v.Exists() && d.ownPos(v)
+}
+
+// ownPos reports whether v is written in the hull's own package files.
+func (d *Design) ownPos(v cue.Value) bool {
 	pos := v.Pos()
 	if !pos.IsValid() {
 		return false

@@ -73,3 +73,30 @@ func TestEntryAndOrigin(t *testing.T) {
 		})
 	}
 }
+
+// TestInputOrigins: the one walk gives what Inputs, Entry and
+// WrittenInHull give apart.
+func TestInputOrigins(t *testing.T) {
+	for _, hull := range []string{"dunnock", "tystie", "brackenwell"} {
+		d, err := Load("../designs/hulls/" + hull)
+		if err != nil {
+			t.Fatal(err)
+		}
+		inputs, entries, own := d.InputOrigins()
+		want := d.Inputs()
+		if len(inputs) != len(want) {
+			t.Fatalf("%s: %d inputs, want %d", hull, len(inputs), len(want))
+		}
+		for p, v := range want {
+			if inputs[p] != v {
+				t.Errorf("%s: %s = %s, want %s", hull, p, inputs[p], v)
+			}
+			if entries[p] != d.Entry(p) {
+				t.Errorf("%s: %s belongs to %s, want %s", hull, p, entries[p], d.Entry(p))
+			}
+			if own[p] != d.WrittenInHull(p) {
+				t.Errorf("%s: %s written in the hull %v, want %v", hull, p, own[p], d.WrittenInHull(p))
+			}
+		}
+	}
+}

@@ -72,6 +72,9 @@ type Source struct {
 	Bad map[string]string
 	// Label prefixes file names in messages, such as "a1b2c3d:designs/".
 	Label string
+	// gathered, when set, are the files of one design already gathered
+	// (Gathered.Compile): they are loaded as they are.
+	gathered *Gathered
 }
 
 // FS returns the source's files as a file system. Opening a bad path
@@ -138,19 +141,35 @@ var labels sync.Map
 // module root, from the files of src that it is made of. The files are
 // gathered first (gather), so cue/load's overlay holds nothing else, and
 // the vendored copy of the schema is checked current before any of it is
-// parsed.
+// parsed. A source made by Gathered.Compile holds files already gathered.
 func loadSource(dir string, src *Source) (loaded, error) {
+	if src.gathered != nil {
+		return src.gathered.load()
+	}
 	dir = path.Clean(filepath.ToSlash(dir))
-	// cue/load looks on the host for what the overlay lacks; under a
-	// path that does not exist it finds nothing.
-	if _, err := os.Lstat(virtualBase); !errors.Is(err, fs.ErrNotExist) {
-		return loaded{}, fmt.Errorf("%s exists on this machine; ampwright lays designs out there in memory and will not load one while it exists", virtualBase)
+	if err := checkVirtualBase(); err != nil {
+		return loaded{}, err
 	}
 	files, notUTF8, err := gather(src.FS(), dir, src.Label)
 	if err != nil {
 		return loaded{}, err
 	}
-	sub := &Source{Files: files, Label: src.Label}
+	return loadFiles(dir, files, notUTF8, src.Label)
+}
+
+// checkVirtualBase refuses to load while the overlay's base exists on the
+// host: cue/load looks on the host for what the overlay lacks, and under a
+// path that does not exist it finds nothing.
+func checkVirtualBase() error {
+	if _, err := os.Lstat(virtualBase); !errors.Is(err, fs.ErrNotExist) {
+		return fmt.Errorf("%s exists on this machine; ampwright lays designs out there in memory and will not load one while it exists", virtualBase)
+	}
+	return nil
+}
+
+// loadFiles loads the package in dir from the files gather found for it.
+func loadFiles(dir string, files map[string][]byte, notUTF8 []string, label string) (loaded, error) {
+	sub := &Source{Files: files, Label: label}
 	if err := checkVendoredInSource(sub); err != nil {
 		return loaded{}, err
 	}
@@ -181,48 +200,11 @@ func loadSource(dir string, src *Source) (loaded, error) {
 // that it is made of are read through the guard into memory, and loaded
 // from there.
 func loadDisk(dir string) (loaded, error) {
-	abs, err := filepath.Abs(dir)
+	g, err := gatherDisk(dir, nil)
 	if err != nil {
 		return loaded{}, err
 	}
-	fi, err := os.Stat(abs)
-	if err != nil {
-		return loaded{}, fmt.Errorf("design %s: %w", dir, plainErr(err))
-	}
-	if !fi.IsDir() {
-		return loaded{}, fmt.Errorf("design %s: not a directory; give the directory of a hull's package", dir)
-	}
-	root := moduleRoot(abs)
-	if root == "" {
-		root = abs
-	}
-	rel, err := filepath.Rel(root, abs)
-	if err != nil {
-		return loaded{}, err
-	}
-	g, err := openGuard(root, DefaultLimits)
-	if err != nil {
-		return loaded{}, err
-	}
-	defer g.root.Close()
-	label := displayName(root)
-	if label == "." {
-		label = ""
-	} else {
-		label += "/"
-	}
-	// The guard's files, gathered once more by loadSource from memory.
-	files, _, err := gather(g, filepath.ToSlash(rel), label)
-	if err != nil {
-		return loaded{}, err
-	}
-	l, err := loadSource(filepath.ToSlash(rel), &Source{Label: label, Files: files})
-	// The design's files are reported where they are on disk.
-	for i, f := range l.files {
-		l.files[i] = filepath.Join(root, filepath.FromSlash(strings.TrimPrefix(f, l.root+"/")))
-	}
-	l.root = root
-	return l, err
+	return g.load()
 }
 
 func checkInstance(dir string, insts []*build.Instance) (*build.Instance, []string, error) {

@@ -18,7 +18,7 @@ func TestMain(m *testing.M) {
 		lim := compiler.DefaultLimits
 		lim.Timeout = 2 * time.Second
 		lim.MaxMemory = 150 << 20
-		if err := Serve(os.Stdin, os.Stdout, lim); err != nil {
+		if err := Serve(os.Stdin, os.Stdout, lim, os.Getenv("AMPWRIGHT_TEST_WORKER_CACHE")); err != nil {
 			os.Exit(1)
 		}
 		os.Exit(0)

@@ -26,7 +26,9 @@ import (
 	"runtime/metrics"
 	"time"
 
+	"github.com/ampwright/ampwright/cache"
 	"github.com/ampwright/ampwright/compiler"
+	"github.com/ampwright/ampwright/result"
 	"github.com/ampwright/ampwright/yard"
 )
 
@@ -63,14 +65,21 @@ const graceTime = 5 * time.Second
 // Serve answers requests from in on out until in ends, compiling each hull
 // in this process within lim: a heap over lim.MaxMemory ends the process
 // with ExitMemory, a compile longer than lim.Timeout and a grace period
-// with ExitTime.
-func Serve(in io.Reader, out io.Writer, lim compiler.Limits) error {
+// with ExitTime. What it compiles it keeps in the result cache in
+// cacheDir ("" for none), and the cache's first error goes back with the
+// answer, for the command to report.
+func Serve(in io.Reader, out io.Writer, lim compiler.Limits, cacheDir string) error {
 	stop := Watch(0, lim.MaxMemory, func(Bound) { os.Exit(ExitMemory) })
 	defer stop()
 	dec := json.NewDecoder(bufio.NewReader(in))
 	w := bufio.NewWriter(out)
 	enc := json.NewEncoder(w)
 	revs := &revisions{}
+	var warning string
+	var ch *cache.Cache
+	if cacheDir != "" {
+		ch = cache.Open(cacheDir, cache.Tool(result.Version), func(err error) { warning = err.Error() })
+	}
 	for {
 		var req Request
 		if err := dec.Decode(&req); err == io.EOF {
@@ -82,7 +91,8 @@ func Serve(in io.Reader, out io.Writer, lim compiler.Limits) error {
 		if lim.Timeout > 0 {
 			timer = time.AfterFunc(lim.Timeout+graceTime, func() { os.Exit(ExitTime) })
 		}
-		ans := Answer{ID: req.ID, Compiled: compile(req, revs)}
+		ans := Answer{ID: req.ID, Compiled: compile(req, revs, ch)}
+		ans.Warning, warning = warning, ""
 		if timer != nil {
 			timer.Stop()
 		}
@@ -130,7 +140,7 @@ func (t *gcTuner) tune() {
 	debug.SetGCPercent(min(max(pct, 100), 800))
 }
 
-func compile(req Request, revs *revisions) yard.Compiled {
+func compile(req Request, revs *revisions, ch *cache.Cache) yard.Compiled {
 	side := yard.Side{Dir: req.Dir}
 	if req.Rev != "" {
 		rv, err := revs.get(req.Dir, req.Rev)
@@ -139,10 +149,11 @@ func compile(req Request, revs *revisions) yard.Compiled {
 		}
 		side = yard.Side{Rev: rv}
 	}
-	return yard.Local(side, req.Hull, req.Want)
+	return yard.Build(side, req.Hull, req.Want, ch)
 }
 
 // revisions keeps the last revisions a worker read: a diff asks for two.
+// Each reads its files from git when first asked for them.
 type revisions struct {
 	keys [2]string
 	revs [2]*yard.Revision
@@ -156,9 +167,12 @@ func (r *revisions) get(dir, rev string) (*yard.Revision, error) {
 			return r.revs[i], nil
 		}
 	}
-	rv, err := yard.ReadRevision(dir, rev)
+	rv, err := yard.ReadCommit(dir, rev)
 	if err != nil {
 		return nil, err
+	}
+	if old := r.revs[r.next]; old != nil {
+		old.Close()
 	}
 	r.keys[r.next], r.revs[r.next] = key, rv
 	r.next = (r.next + 1) % len(r.keys)

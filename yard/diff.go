@@ -19,46 +19,59 @@ type Side struct {
 
 func (s Side) hulls() ([]string, error) {
 	if s.Rev != nil {
-		return Hulls("", s.Rev.Source)
+		return hullsIn(s.Rev.FS())
 	}
 	return Hulls(s.Dir, nil)
 }
 
-// compile compiles a hull of the side; with facts, a hull on disk asks git
-// what it was read from (a fleet's line and a diff do not show it, and git
-// runs only where its answer is shown).
-func (s Side) compile(hull string, facts bool) (*result.Result, *compiler.Design, error) {
-	var r *result.Result
-	var d *compiler.Design
-	var err error
+// compile compiles a hull of the side, without git's facts.
+func (s Side) compile(hull string) (*result.Result, *compiler.Design, error) {
+	if s.Rev != nil {
+		g, err := s.gather(hull, nil)
+		if err != nil {
+			return nil, nil, compiler.GatherError(err)
+		}
+		return g.Compile()
+	}
+	return compiler.Compile(hullDir(s.Dir, hull))
+}
+
+// gather reads the files of a hull of the side, through rd for a side on
+// disk when rd is not nil.
+func (s Side) gather(hull string, rd *compiler.Reader) (*compiler.Gathered, error) {
 	switch {
 	case s.Rev != nil:
-		r, d, err = compiler.CompileFrom(hull, s.Rev.Source)
-		if err == nil {
-			attach(r, Facts{Revision: s.Rev.Commit, Time: s.Rev.Time})
-		}
-	case facts:
-		r, d, err = Compile(hullDir(s.Dir, hull))
-	default:
-		r, d, err = compiler.Compile(hullDir(s.Dir, hull))
+		return compiler.GatherFS(s.Rev.FS(), hull, s.Rev.Label())
+	case rd != nil:
+		return rd.Gather(hullDir(s.Dir, hull))
 	}
-	if r != nil {
-		r.Design.Path = hull
-	}
-	return r, d, err
+	return compiler.Gather(hullDir(s.Dir, hull))
 }
 
 // DiffYard compares every hull of a yard between two sides, compiling as
 // opts says. A hull whose inputs are the same on both sides (its own files
-// and everything it imports, catalog and rulebook included, found by
-// quickHasher) is listed as unchanged without being compiled.
+// and everything it imports, catalog and rulebook included: see
+// comparison) is listed as unchanged without being compiled. A base read
+// from git is read only where it differs from the head: its hulls are
+// listed from the head's where their directories are the same, and a
+// hull's files are read from git only to compile it.
 func DiffYard(base, head Side, opts Options) (*result.YardDelta, error) {
-	bh, err := base.hulls()
+	cmp := newComparison(base, head)
+	defer cmp.close()
+	var hh []string
+	var err error
+	if head.Rev == nil {
+		hh, err = cmp.head.hulls()
+	} else {
+		hh, err = head.hulls()
+	}
 	if err != nil {
 		return nil, err
 	}
-	hh, err := head.hulls()
-	if err != nil {
+	var bh []string
+	if base.Rev != nil {
+		bh = cmp.baseHulls(hh)
+	} else if bh, err = base.hulls(); err != nil {
 		return nil, err
 	}
 	at := map[string][2]bool{}
@@ -73,19 +86,9 @@ func DiffYard(base, head Side, opts Options) (*result.YardDelta, error) {
 		at[h] = v
 	}
 	yd := &result.YardDelta{Base: base.Name, Head: head.Name, Hulls: []result.HullDelta{}}
-	bq, hq := newQuickHasher(base), newQuickHasher(head)
-	// The quick hashes first, in this goroutine: the hashers cache
-	// directories and are not safe for concurrent use.
 	names := schema.Names(at)
-	same := make([]bool, len(names))
-	for i, hull := range names {
-		if sides := at[hull]; sides[0] && sides[1] {
-			bHash, bErr := bq.Hash(hull)
-			hHash, hErr := hq.Hash(hull)
-			same[i] = bErr == nil && hErr == nil && bHash == hHash
-		}
-	}
-	run := opts.run()
+	run, done := opts.Runner()
+	defer done()
 	deltas := make([]result.HullDelta, len(names))
 	taken := make([][]result.SharedChange, len(names))
 	each(len(names), opts, func(i int) {
@@ -99,10 +102,22 @@ func DiffYard(base, head Side, opts Options) (*result.YardDelta, error) {
 			}
 		case !sides[0]:
 			deltas[i] = headOnly(run(head, hull, WantResult), hull)
-		case same[i]:
+		case cmp.unchanged(hull):
+			// Found here rather than before the loop, so that the first
+			// changed hull is compiling while the others are compared.
 			deltas[i] = result.HullDelta{Path: hull, State: result.HullUnchanged}
 		default:
-			deltas[i], taken[i] = diffHull(run(base, hull, WantInputs), run(head, hull, WantInputs), hull)
+			// The two sides at once: a diff of one changed hull takes
+			// the time of one compile, given two cores.
+			var b Compiled
+			done := make(chan struct{})
+			go func() {
+				defer close(done)
+				b = run(base, hull, WantInputs)
+			}()
+			h := run(head, hull, WantInputs)
+			<-done
+			deltas[i], taken[i] = diffHull(b, h, hull)
 		}
 	})
 	yd.Hulls = deltas

@@ -32,7 +32,8 @@ func Fleet(root string, hulls []string, opts Options) ([]result.FleetLine, map[s
 	out := make([]result.FleetLine, len(hulls))
 	kept := map[string]*result.Result{}
 	var mu sync.Mutex
-	run := opts.run()
+	run, done := opts.Runner()
+	defer done()
 	each(len(hulls), opts, func(i int) {
 		want := WantLine
 		keep := opts.Keep != nil && opts.Keep(hulls[i])
@@ -40,15 +41,7 @@ func Fleet(root string, hulls []string, opts Options) ([]result.FleetLine, map[s
 			want = WantResult
 		}
 		c := run(Side{Dir: root}, hulls[i], want)
-		switch {
-		case !c.OK():
-			out[i] = result.FleetLine{Path: hulls[i], Problems: c.Problems, LowestSoC: -1}
-		case c.Line != nil:
-			out[i] = *c.Line
-			out[i].Path = hulls[i]
-		default:
-			out[i] = result.FleetLineOf(hulls[i], c.Result)
-		}
+		out[i] = fleetLine(hulls[i], c)
 		if keep && c.Result != nil {
 			mu.Lock()
 			kept[hulls[i]] = c.Result
@@ -89,19 +82,20 @@ func each(n int, opts Options, f func(i int)) {
 
 // ChangedSince reports which of the hulls (slash paths relative to the
 // module root, in a git work tree) have inputs that differ from those at
-// revision rev, by the diff's quick hash of their files and imports, or
-// did not exist at rev. Nothing is compiled.
+// revision rev (see comparison), or did not exist at rev. Nothing is
+// compiled, and nothing is read from git but rev's tree and the files of
+// the directories that differ.
 func ChangedSince(root, rev string, hulls []string) (map[string]bool, error) {
-	src, err := ReadRevision(root, rev)
+	rv, err := ReadRevision(root, rev)
 	if err != nil {
 		return nil, err
 	}
-	bq, hq := newQuickHasher(Side{Rev: src}), newQuickHasher(Side{Dir: root})
+	defer rv.Close()
+	cmp := newComparison(Side{Rev: rv}, Side{Dir: root})
+	defer cmp.close()
 	changed := map[string]bool{}
 	for _, h := range hulls {
-		a, errA := bq.Hash(h)
-		b, errB := hq.Hash(h)
-		changed[h] = errA != nil || errB != nil || a != b
+		changed[h] = !cmp.unchanged(h)
 	}
 	return changed, nil
 }

@@ -1,6 +1,7 @@
 package yard
 
 import (
+	"bufio"
 	"bytes"
 	"fmt"
 	"io"
@@ -88,4 +89,39 @@ func commitTime(dir, commit string) int64 {
 		}
 	}
 	return 0
+}
+
+// gitProcess is a git command that runs while it is given input, such as
+// `git cat-file --batch`, started with the same hardening as git.
+type gitProcess struct {
+	cmd    *exec.Cmd
+	stdin  io.WriteCloser
+	stdout *bufio.Reader
+	stderr bytes.Buffer
+}
+
+func startGit(dir string, args ...string) (*gitProcess, error) {
+	full := append(append([]string{"-C", dir}, hardened...), args...)
+	p := &gitProcess{cmd: exec.Command("git", full...)}
+	p.cmd.Env = gitEnv()
+	p.cmd.Stderr = &p.stderr
+	in, err := p.cmd.StdinPipe()
+	if err != nil {
+		return nil, err
+	}
+	out, err := p.cmd.StdoutPipe()
+	if err != nil {
+		return nil, err
+	}
+	if err := p.cmd.Start(); err != nil {
+		return nil, fmt.Errorf("git %s: %v", strings.Join(args, " "), err)
+	}
+	p.stdin, p.stdout = in, bufio.NewReader(out)
+	return p, nil
+}
+
+// close ends the process's input and waits for it.
+func (p *gitProcess) close() {
+	p.stdin.Close()
+	p.cmd.Wait()
 }

@@ -20,18 +20,20 @@ var isHullFile = regexp.MustCompile(`(?m)^vessel\s*:`)
 // directory with a .cue file that may not be read (a link leading out of
 // the yard, a device) is listed too, so that compiling it says why.
 func Hulls(root string, src *compiler.Source) ([]string, error) {
-	var fsys fs.FS
 	if src != nil {
-		fsys = src.FS()
-	} else {
-		var err error
-		if fsys, err = yardFS(root); err != nil {
-			return nil, err
-		}
+		return hullsIn(src.FS())
 	}
-	root = "."
+	fsys, err := yardFS(root)
+	if err != nil {
+		return nil, err
+	}
+	return hullsIn(fsys)
+}
+
+// hullsIn lists the hull packages of a yard's module in fsys.
+func hullsIn(fsys fs.FS) ([]string, error) {
 	seen := map[string]bool{}
-	err := fs.WalkDir(fsys, root, func(p string, d fs.DirEntry, err error) error {
+	err := fs.WalkDir(fsys, ".", func(p string, d fs.DirEntry, err error) error {
 		if err != nil {
 			return err
 		}

@@ -6,7 +6,6 @@ import (
 
 	"cuelang.org/go/cue"
 
-	"github.com/ampwright/ampwright/compiler"
 	"github.com/ampwright/ampwright/result"
 )
 
@@ -37,20 +36,6 @@ func (c compiled) entry(p string) string {
 		return cue.MakePath(sels[0]).String()
 	}
 	return p
-}
-
-// origins gives, for every input of design d, the entry it belongs to
-// and whether the hull's own files write it: what splitInputs needs of a
-// side, small enough for a worker to send back.
-func origins(d *compiler.Design, inputs map[string]string) (entries map[string]string, own map[string]bool) {
-	entries, own = map[string]string{}, map[string]bool{}
-	for p := range inputs {
-		entries[p] = d.Entry(p)
-		if d.WrittenInHull(p) {
-			own[p] = true
-		}
-	}
-	return entries, own
 }
 
 // splitInputs sorts a hull's input changes into those written in its own

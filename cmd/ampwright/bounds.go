@@ -10,6 +10,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/ampwright/ampwright/cache"
 	"github.com/ampwright/ampwright/compiler"
 	"github.com/ampwright/ampwright/report"
 	"github.com/ampwright/ampwright/worker"
@@ -50,19 +51,21 @@ func watchOne(stderr io.Writer, what string, grace time.Duration) (stop func()) 
 }
 
 // newPool returns the worker processes that compile hulls for fleet, diff
-// and check: this same executable, run as `ampwright worker`. Where the
-// executable cannot be found, hulls are compiled in this process under
-// the watchdog, which ends the whole command on a bound.
-func newPool(stderr io.Writer) (yard.Options, func()) {
+// and check: this same executable, run as `ampwright worker`, keeping what
+// they compile in the result cache ch. A worker is started only for a hull
+// not found in the cache. Where the executable cannot be found, hulls are
+// compiled in this process under the watchdog, which ends the whole
+// command on a bound.
+func newPool(stderr io.Writer, ch *cache.Cache) (yard.Options, func()) {
 	lim := compiler.DefaultLimits
 	exe, err := executable()
 	if err != nil {
 		stop := watchOne(stderr, "ampwright", 0)
-		return yard.Options{}, stop
+		return yard.Options{Cache: ch}, stop
 	}
-	args := []string{"worker", "--" + flagTimeout, lim.Timeout.String(), "--" + flagMaxMemory, worker.Size(lim.MaxMemory)}
+	args := []string{"worker", "--" + flagTimeout, lim.Timeout.String(), "--" + flagMaxMemory, worker.Size(lim.MaxMemory), "--" + flagResultCache, workerCacheArg(ch)}
 	p := worker.NewPool(runtime.GOMAXPROCS(0), exe, args, lim)
-	return yard.Options{Run: p.Run}, p.Close
+	return yard.Options{Run: p.Run, Cache: ch}, p.Close
 }
 
 // executable is this program's file. os.Executable is not a name looked
@@ -77,15 +80,22 @@ func executable() (string, error) {
 }
 
 func newWorkerCmd() *cobra.Command {
-	return &cobra.Command{
+	var setting string
+	c := &cobra.Command{
 		Use:    "worker",
 		Short:  "Compile hulls for another ampwright process (internal)",
 		Hidden: true,
 		Args:   cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return worker.Serve(cmd.InOrStdin(), cmd.OutOrStdout(), compiler.DefaultLimits)
+			dir, err := cacheDir(setting)
+			if err != nil {
+				dir = ""
+			}
+			return worker.Serve(cmd.InOrStdin(), cmd.OutOrStdout(), compiler.DefaultLimits, dir)
 		},
 	}
+	c.Flags().StringVar(&setting, flagResultCache, cacheOff, "the result cache's directory, or off")
+	return c
 }
 
 // temps are the temporary files being written, removed when a bound ends

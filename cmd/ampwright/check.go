@@ -9,6 +9,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/ampwright/ampwright/cache"
 	"github.com/ampwright/ampwright/compiler"
 	"github.com/ampwright/ampwright/report"
 	"github.com/ampwright/ampwright/result"
@@ -17,6 +18,7 @@ import (
 
 type checkOptions struct {
 	format string
+	cache  string
 	stdout io.Writer
 	stderr io.Writer
 }
@@ -32,11 +34,15 @@ against the schema, runs every check and prints what it found.
 Input errors are printed as file:line:col: path: message, all of a design's
 errors at once, sorted by position.
 
+` + cacheHelp("What check finds") + `
+
 Exit status: 0 when every check passes or warns, 1 when a check fails,
 2 on an input or usage error.`,
 		Example: `  ampwright check designs/hulls/dunnock
   ampwright check designs/hulls/dunnock designs/hulls/marram
-  ampwright check --format json designs/hulls/marram | jq '.checks[] | select(.status == "fail")'`,
+  ampwright check --format json designs/hulls/marram | jq '.checks[] | select(.status == "fail")'
+  ampwright check --result-cache off designs/hulls/dunnock
+  ampwright check --result-cache /tmp/ampwright-cache designs/hulls/*`,
 		Args: cobra.MinimumNArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if err := checkFormat(opts.format, "text", "json"); err != nil {
@@ -47,12 +53,13 @@ Exit status: 0 when every check passes or warns, 1 when a check fails,
 		},
 	}
 	formatFlag(c, &opts.format, "text", "json")
+	cacheFlag(c, &opts.cache)
 	return c
 }
 
 func runCheck(opts *checkOptions, dirs []string) error {
 	code := exitOK
-	results := compileAll(opts.stderr, dirs)
+	results := compileAll(opts.stderr, dirs, openCache(opts.cache, opts.stderr))
 	for i, r := range results {
 		dir := dirs[i]
 		if len(r.Problems) > 0 {
@@ -91,23 +98,26 @@ func runCheck(opts *checkOptions, dirs []string) error {
 	return nil
 }
 
-// compileAll compiles designs, one in this process under the watchdog,
-// several in worker processes, and returns their results in order; a
-// design with input errors, or that passed a bound, has problems.
-func compileAll(stderr io.Writer, dirs []string) []*result.Result {
+// compileAll compiles designs, or finds them in the result cache ch, one
+// in this process under the watchdog, several in worker processes, and
+// returns their results in order; a design with input errors, or that
+// passed a bound, has problems.
+func compileAll(stderr io.Writer, dirs []string, ch *cache.Cache) []*result.Result {
 	out := make([]*result.Result, len(dirs))
 	if len(dirs) == 1 {
 		stop := watchOne(stderr, dirs[0], 0)
 		defer stop()
-		out[0], _ = compileOne(dirs[0])
+		c := yard.Check(dirs[0], ch)
+		out[0] = c.Result
+		if !c.OK() {
+			out[0] = brokenResult(dirs[0], c.Problems)
+		}
 		return out
 	}
-	opts, done := newPool(stderr)
+	opts, done := newPool(stderr, ch)
 	defer done()
-	run := opts.Run
-	if run == nil {
-		run = yard.Local
-	}
+	run, finished := opts.Runner()
+	defer finished()
 	var wg sync.WaitGroup
 	sem := make(chan struct{}, runtime.GOMAXPROCS(0))
 	for i, dir := range dirs {

@@ -28,6 +28,7 @@ const minMaxBytes = 4096
 
 type diffOptions struct {
 	base, head, format, failOn string
+	cache                      string
 	maxBytes                   int
 	jsonOut                    string
 	stdout, stderr             io.Writer
@@ -68,6 +69,8 @@ the same run, for a CI job to keep as an artifact.
 --format hulls prints the paths of the changed and added hulls, one a
 line, for scripts (such as building a pack for each).
 
+` + cacheHelp("Each side of a changed hull") + `
+
 Exit status: 0 no regression, 1 a regression (or, with --fail-on failing,
 any failing finding in a changed hull), 2 an error, or no hulls on either
 side.`,
@@ -75,6 +78,7 @@ side.`,
   ampwright diff --base origin/main --format markdown designs >> "$GITHUB_STEP_SUMMARY"
   ampwright diff --base origin/main --format markdown --json-out diff.json designs > comment.md
   ampwright diff --base v1.2 --head v1.3 designs
+  ampwright diff --result-cache "$RUNNER_TEMP/ampwright-cache" --base origin/main designs
   ampwright diff old-yard new-yard`,
 		Args: cobra.MaximumNArgs(2),
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -99,6 +103,7 @@ side.`,
 	c.Flags().IntVar(&opts.maxBytes, flagMaxBytes, report.DefaultMaxBytes, "the largest Markdown written, in bytes; less urgent sections are left out")
 	c.Flags().StringVar(&opts.jsonOut, flagJSONOut, "", "also write the full diff as JSON to this file")
 	_ = c.MarkFlagFilename(flagJSONOut, "json")
+	cacheFlag(c, &opts.cache)
 	formatFlag(c, &opts.format, "text", "markdown", "json", "hulls")
 	return c
 }
@@ -138,18 +143,20 @@ func runDiff(opts *diffOptions, args []string) error {
 		if err != nil {
 			return &exitError{code: exitInput, err: err}
 		}
+		defer src.Close()
 		base = yard.Side{Name: rev, Rev: src}
 		if opts.head != "" {
 			hsrc, err := yard.ReadRevision(root, opts.head)
 			if err != nil {
 				return &exitError{code: exitInput, err: err}
 			}
+			defer hsrc.Close()
 			head = yard.Side{Name: opts.head, Rev: hsrc}
 		} else {
 			head = yard.Side{Name: "work tree", Dir: root}
 		}
 	}
-	run, done := newPool(opts.stderr)
+	run, done := newPool(opts.stderr, openCache(opts.cache, opts.stderr))
 	defer done()
 	d, err := yard.DiffYard(base, head, run)
 	if err != nil {

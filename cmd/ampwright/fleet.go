@@ -36,6 +36,7 @@ type fleetOptions struct {
 	sort                   string
 	failing, warning, uses string
 	since, packs, paper    string
+	cache                  string
 	stdout                 io.Writer
 	stderr                 io.Writer
 }
@@ -75,6 +76,11 @@ spread over the parallel jobs of a CI matrix; --merge combines the shards'
 JSON outputs into one fleet (the filters and --sort apply to it too), and
 renders a fleet's JSON again as text or Markdown without compiling.
 
+` + cacheHelp("Each hull's result") + `
+
+A fleet looks every hull up before it starts a worker: a fleet of hulls all
+found compiles nothing.
+
 A progress bar is shown on a terminal, never when the output is not a
 terminal or CI is set.
 
@@ -87,7 +93,9 @@ Exit status: 0 every hull listed passes or warns, 1 a hull fails a check,
   ampwright fleet --since origin/main --packs out/packs --format json designs > fleet.json
   ampwright fleet --merge fleet.json --format markdown >> "$GITHUB_STEP_SUMMARY"
   ampwright fleet --shard 2/4 --format json designs > shard-2.json
-  ampwright fleet --merge shard-*.json`,
+  ampwright fleet --merge shard-*.json
+  ampwright fleet --result-cache "$RUNNER_TEMP/ampwright-cache" designs
+  ampwright fleet --result-cache off designs`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if err := checkFormat(opts.format, "text", "json", "markdown"); err != nil {
 				return err
@@ -128,6 +136,7 @@ Exit status: 0 every hull listed passes or warns, 1 a hull fails a check,
 	c.Flags().StringVar(&opts.since, flagSince, "", "mark the hulls whose inputs changed since git revision REV")
 	c.Flags().StringVar(&opts.packs, flagPacks, "", "write the pack of each hull listed (with --since, each changed hull) into DIR")
 	c.Flags().StringVar(&opts.paper, flagPaper, "a4", "paper size of the packs: a4|letter")
+	cacheFlag(c, &opts.cache)
 	_ = c.MarkFlagDirname(flagPacks)
 	_ = c.RegisterFlagCompletionFunc(flagSort, func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
 		return []string{result.ByPath, result.ByVerdict, result.ByCost}, cobra.ShellCompDirectiveNoFileComp
@@ -183,7 +192,7 @@ func runFleet(opts *fleetOptions, dir string) error {
 	}
 	f.Since = opts.since
 	keep := func(h string) bool { return opts.packs != "" && (opts.since == "" || changed[h]) }
-	run, done := newPool(opts.stderr)
+	run, done := newPool(opts.stderr, openCache(opts.cache, opts.stderr))
 	defer done()
 	run.Progress, run.Keep = progressBar(opts.stderr), keep
 	var results map[string]*result.Result

@@ -19,9 +19,25 @@ import (
 var updateScripts = flag.Bool("update", false, "rewrite the expected output in testscript files")
 
 func TestMain(m *testing.M) {
-	testscript.Main(m, map[string]func(){
+	testscript.Main(cachedTests{m}, map[string]func(){
 		"ampwright": func() { os.Exit(Main()) },
 	})
+}
+
+// cachedTests runs the tests with a result cache of their own, never the
+// user's, for the commands run in this process and their workers, and
+// removes it after.
+type cachedTests struct{ m *testing.M }
+
+func (t cachedTests) Run() int {
+	dir, err := os.MkdirTemp("", "ampwright-test-cache-")
+	if err != nil {
+		fmt.Fprintln(os.Stderr, err)
+		return 2
+	}
+	defer os.RemoveAll(dir)
+	os.Setenv(envResultCache, dir)
+	return t.m.Run()
 }
 
 // TestScript runs the end-to-end scripts in testdata/script. $DESIGNS is
@@ -41,6 +57,14 @@ func TestScript(t *testing.T) {
 		Setup: func(env *testscript.Env) error {
 			env.Setenv("DESIGNS", designs)
 			env.Setenv("YARD_WORKFLOW", workflow)
+			// Each script starts with an empty result cache of its own,
+			// outside its work directory.
+			dir, err := os.MkdirTemp("", "ampwright-script-cache-")
+			if err != nil {
+				return err
+			}
+			env.Defer(func() { os.RemoveAll(dir) })
+			env.Setenv(envResultCache, dir)
 			return nil
 		},
 		Cmds: map[string]func(ts *testscript.TestScript, neg bool, args []string){
