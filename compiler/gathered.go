@@ -100,6 +100,19 @@ func (g *Gathered) Digest(rel string) ([32]byte, bool) {
 	return d, ok
 }
 
+// Paths are the gathered files' paths on disk, sorted, as Design.Files
+// gives them; none for a module in memory.
+func (g *Gathered) Paths() []string {
+	if g.Root == "" {
+		return nil
+	}
+	out := make([]string, 0, len(g.files))
+	for _, rel := range schema.Names(g.files) {
+		out = append(out, filepath.Join(g.Root, filepath.FromSlash(rel)))
+	}
+	return out
+}
+
 // Compile compiles the design from the gathered files (see CompileFrom).
 func (g *Gathered) Compile() (*result.Result, *Design, error) {
 	return CompileFrom(g.Dir, &Source{Label: g.Label, gathered: g})

@@ -13,6 +13,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/ampwright/ampwright/compiler"
 	"github.com/ampwright/ampwright/report"
 	"github.com/ampwright/ampwright/result"
 	"github.com/ampwright/ampwright/schema"
@@ -212,7 +213,7 @@ func runFleet(opts *fleetOptions, dir string) error {
 				delete(results, h)
 			}
 		}
-		if err := writePacks(opts, paper, results); err != nil {
+		if err := writePacks(opts, dir, paper, results); err != nil {
 			return err
 		}
 	}
@@ -254,14 +255,19 @@ func changedSince(since, dir string, hulls []string) (map[string]bool, error) {
 
 // writePacks renders the packs of the results given into the packs
 // directory, one DIR/<hull>.pdf each, in path order.
-func writePacks(opts *fleetOptions, paper string, results map[string]*result.Result) error {
+func writePacks(opts *fleetOptions, dir, paper string, results map[string]*result.Result) error {
 	date, err := sourceDateEpoch()
 	if err != nil {
 		return usageError("%v", err)
 	}
 	for _, h := range schema.Names(results) {
+		// The cover's history is git's, asked afresh of the hull's files.
+		var history result.History
+		if g, err := compiler.Gather(filepath.Join(dir, filepath.FromSlash(h))); err == nil {
+			history = yard.History(g.Root, g.Paths())
+		}
 		var b bytes.Buffer
-		if err := report.Pack(&b, results[h], report.PackOptions{PageSize: paper, Date: date}); err != nil {
+		if err := report.Pack(&b, results[h], report.PackOptions{PageSize: paper, Date: date, History: history}); err != nil {
 			return &exitError{code: exitInput, err: fmt.Errorf("%s: %v", h, err)}
 		}
 		out := filepath.Join(opts.packs, filepath.FromSlash(h)+".pdf")
