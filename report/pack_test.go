@@ -448,3 +448,37 @@ func contains(list []string, s string) bool {
 	}
 	return false
 }
+
+// BenchmarkPack draws the packs of two example hulls, and of the result
+// in the file AMPWRIGHT_BENCH_RESULT names when it is set (a larger hull:
+// `ampwright check --format json` of a hull of cmd/yardgen's yard), to
+// follow the time and allocations a pack costs:
+//
+//	go test ./report -run xxx -bench Pack -benchmem
+func BenchmarkPack(b *testing.B) {
+	files := []string{filepath.Join("testdata", "dunnock.json"), filepath.Join("testdata", "marram.json")}
+	if f := os.Getenv("AMPWRIGHT_BENCH_RESULT"); f != "" {
+		files = append(files, f)
+	}
+	for _, file := range files {
+		b.Run(strings.TrimSuffix(filepath.Base(file), ".json"), func(b *testing.B) {
+			bs, err := os.ReadFile(file)
+			if err != nil {
+				b.Fatal(err)
+			}
+			var r result.Result
+			if err := json.Unmarshal(bs, &r); err != nil {
+				b.Fatal(err)
+			}
+			var out bytes.Buffer
+			b.ReportAllocs()
+			for b.Loop() {
+				out.Reset()
+				if err := Pack(&out, &r, PackOptions{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(out.Len()), "bytes/pack")
+		})
+	}
+}
