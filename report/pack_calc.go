@@ -158,7 +158,7 @@ func findingIDs(fs []result.Finding) []string {
 func (p *pack) calcSheets() {
 	d := p.d
 	p.start("calc", "Calculation sheets", false)
-	p.note(8, colInk, "Every figure the checks computed: its formula, each input with its value, unit and where it came from (a path in the design, a rulebook entry or another figure), and the result; under it the finding on it, with the limit and where the limit comes from. Sources are cited as [S1], [S2] … and listed in full on page "+pageAlias("sources")+". Values are as computed, to six significant digits.")
+	p.noteRefs(8, colInk, "Every figure the checks computed: its formula, each input with its value, unit and where it came from (a path in the design, a rulebook entry or another figure), and the result; under it the finding on it, with the limit and where the limit comes from. Sources are cited as [S1], [S2] … and listed in full on page "+p.pageRef("sources")+". Values are as computed, to six significant digits.")
 	d.y += 2
 	groups, items := p.calcItems()
 	for gi, g := range groups {
@@ -428,8 +428,8 @@ func worst(fs []result.Finding) result.Status {
 func (p *pack) sourceSheet() {
 	d := p.d
 	p.sub("Sources cited", 20)
-	d.alias(pageAlias("sources"), strconv.Itoa(d.page()))
-	p.note(8, colMuted, "A source marked "+markRecalled+" (recalled), "+markCommon+" (common practice) or "+markSecond+" (secondary) is not the standard's own text: what each mark means, and what to do about it, is under Cautions, page "+pageAlias("cautions")+".")
+	d.mark("sources")
+	p.noteRefs(8, colMuted, "A source marked "+markRecalled+" (recalled), "+markCommon+" (common practice) or "+markSecond+" (secondary) is not the standard's own text: what each mark means, and what to do about it, is under Cautions, page "+p.pageRef("cautions")+".")
 	d.y += 1
 	var rows []trow
 	for i, s := range p.sourceList {
