@@ -512,11 +512,22 @@ func (d *doc) hasGlyph(r rune) bool {
 
 // strW is the width of clean text in the current font, a marker
 // measured as its stand-in.
-func (d *doc) strW(s string) float64 {
+func (d *doc) strW(s string) float64 { return d.symToW(d.symW(s)) }
+
+// symW is the width of clean text in the current font in the font's
+// units, which add up: the width of a line is the sum of its words' and
+// spaces'. symToW converts it to millimetres as fpdf's GetStringWidth
+// does, to the same bits.
+func (d *doc) symW(s string) int {
 	if d.refsOK && hasRef(s) {
 		s = standIn(s)
 	}
-	return d.f.GetStringWidth(s)
+	return d.f.GetStringSymbolWidth(s)
+}
+
+func (d *doc) symToW(sym int) float64 {
+	_, size := d.f.GetFontSize()
+	return float64(sym) * size / 1000
 }
 
 // textW is the width of s in the current font.
@@ -583,31 +594,38 @@ func (d *doc) wrapPara(s string, w float64) []string {
 	if len(words) == 0 {
 		return []string{""}
 	}
-	var lines []string
-	cur := ""
+	// Each word is measured once: the line so far is the sum of its
+	// words and spaces.
+	space := d.symW(" ")
+	var lines, cur []string
+	curW := 0
 	for _, word := range words {
-		try := word
-		if cur != "" {
-			try = cur + " " + word
+		ww := d.symW(word)
+		try := ww
+		if len(cur) > 0 {
+			try = curW + space + ww
 		}
-		if d.strW(try) <= w {
-			cur = try
+		if d.symToW(try) <= w {
+			cur, curW = append(cur, word), try
 			continue
 		}
-		if cur != "" {
-			lines = append(lines, cur)
-			cur = ""
+		if len(cur) > 0 {
+			lines = append(lines, strings.Join(cur, " "))
+			cur = cur[:0]
 		}
 		// The word alone: split it if it is wider than a line.
-		for d.strW(word) > w {
+		for d.symToW(ww) > w {
 			head, tail := d.splitWord(word, w)
 			lines = append(lines, head)
 			word = tail
+			ww = d.symW(word)
 		}
-		cur = word
+		if word != "" {
+			cur, curW = append(cur, word), ww
+		}
 	}
-	if cur != "" {
-		lines = append(lines, cur)
+	if len(cur) > 0 {
+		lines = append(lines, strings.Join(cur, " "))
 	}
 	return lines
 }
