@@ -14,8 +14,12 @@ package report
 // the document to flateStreams (pdf_flate.go), which uses one. It writes
 // every change of font, colour and line style even when nothing changes:
 // doc keeps what it last set on the page (gstate) and writes only
-// changes. Its page-number aliases are not used at all: see "Page
-// numbers" below.
+// changes. It writes a font change to the page even to measure text: doc
+// measures with the widths fpdf gave it for each character (symW) and
+// gives fpdf the font only to draw. It wraps text whose colour is not the
+// fill colour in q and Q with its colour: doc sets the fill to the text's
+// colour before drawing text. Its page-number aliases are not used at
+// all: see "Page numbers" below.
 
 import (
 	"bytes"
@@ -92,6 +96,9 @@ type doc struct {
 	refsOK     bool           // the text being drawn may hold markers
 	later      []laterText    // the lines waiting for a page number
 	ink        rgb            // the text colour
+	face       fontStyle      // the font selected (font), drawn in once fpdf has it (applyFont)
+	size       float64
+	widths     [3][]int32 // fpdf's width of each character below widthTable, by face, plus 1; 0 unknown
 	glyphs     *sfnt.Font
 	glyphBuf   sfnt.Buffer
 	haveGlyph  map[rune]bool
@@ -146,17 +153,26 @@ func newDoc(paper string, date time.Time) (*doc, error) {
 	f.SetLang("en")
 	d := &doc{f: f, paper: size, margin: 15, top: 20, bottomGap: 16, glyphs: goFonts()[0],
 		orient: []bool{false}, refPage: map[string]int{}, haveGlyph: map[rune]bool{}}
+	all := make([]int32, 3*widthTable)
+	for i := range d.widths {
+		d.widths[i] = all[i*widthTable : (i+1)*widthTable]
+	}
 	d.w, d.h = size.Wd, size.Ht
 	f.SetHeaderFunc(func() { d.decorate(d.header) })
 	return d, f.Error()
 }
 
+// decorate draws a header or footer, and leaves the font and text colour
+// as they were: fpdf, too, restores its own after the header.
 func (d *doc) decorate(fn func()) {
 	if fn == nil || d.inDecorate {
 		return
 	}
 	d.inDecorate = true
+	face, size, ink := d.face, d.size, d.ink
 	fn()
+	d.face, d.size = face, size
+	d.textColor(ink)
 	d.inDecorate = false
 }
 
@@ -194,7 +210,7 @@ func (d *doc) addPage(landscape bool) {
 	if landscape {
 		o = "L"
 	}
-	d.size(landscape)
+	d.setSize(landscape)
 	d.f.AddPageFormat(o, d.paper)
 	d.orient = append(d.orient, landscape)
 	// fpdf has set the font, colours and line style again, and the header
@@ -203,8 +219,8 @@ func (d *doc) addPage(landscape bool) {
 	d.y = d.top
 }
 
-// size sets the page size for the orientation.
-func (d *doc) size(landscape bool) {
+// setSize sets the page size for the orientation.
+func (d *doc) setSize(landscape bool) {
 	d.w, d.h = d.paper.Wd, d.paper.Ht
 	if landscape {
 		d.w, d.h = d.h, d.w
@@ -350,7 +366,7 @@ type laterText struct {
 
 // keep keeps a line holding a marker for finish.
 func (d *doc) keep(t laterText) {
-	t.page, t.face, t.size, t.color = d.page(), d.gs.face, d.gs.size, d.ink
+	t.page, t.face, t.size, t.color = d.page(), d.face, d.size, d.ink
 	d.later = append(d.later, t)
 }
 
@@ -366,16 +382,13 @@ func (d *doc) finish() {
 	later := d.later
 	for pg := 1; pg <= n; pg++ {
 		d.f.SetPage(pg)
-		d.size(d.orient[pg])
+		d.setSize(d.orient[pg])
 		d.landscape = d.orient[pg]
 		d.gs = gstate{}
 		d.f.TransformBegin()
 		if dy := lastH - d.h; dy != 0 {
 			d.f.TransformTranslate(0, dy)
 		}
-		// Text in the fill colour is drawn in the fill the page left.
-		r, g, b := d.f.GetFillColor()
-		d.fillColor(rgb{r, g, b})
 		if d.footer != nil {
 			d.decorate(d.footer)
 		}
@@ -408,9 +421,9 @@ func (d *doc) bytes() ([]byte, error) {
 	return flateStreams(b.Bytes())
 }
 
-// gstate is what doc last set of the graphics state on the current page,
-// so that a setting repeated is not written to the page again; each part
-// is unknown (its flag false) at the start of a page.
+// gstate is what doc last gave fpdf of the graphics state on the current
+// page, so that a setting repeated is not written to the page again; each
+// part is unknown (its flag false) at the start of a page.
 type gstate struct {
 	fontSet bool
 	face    fontStyle
@@ -421,26 +434,28 @@ type gstate struct {
 	fill    rgb
 }
 
-// font selects a face and size.
-func (d *doc) font(s fontStyle, size float64) {
-	if d.gs.fontSet && d.gs.face == s && d.gs.size == size {
+// font selects a face and size for the text measured and drawn next.
+func (d *doc) font(s fontStyle, size float64) { d.face, d.size = s, size }
+
+// applyFont gives fpdf the selected font, to draw in or to measure with.
+func (d *doc) applyFont() {
+	if d.gs.fontSet && d.gs.face == d.face && d.gs.size == d.size {
 		return
 	}
-	d.gs.fontSet, d.gs.face, d.gs.size = true, s, size
-	switch s {
+	d.gs.fontSet, d.gs.face, d.gs.size = true, d.face, d.size
+	switch d.face {
 	case bold:
-		d.f.SetFont("go", "B", size)
+		d.f.SetFont("go", "B", d.size)
 	case mono:
-		d.f.SetFont("gomono", "", size)
+		d.f.SetFont("gomono", "", d.size)
 	default:
-		d.f.SetFont("go", "", size)
+		d.f.SetFont("go", "", d.size)
 	}
 }
 
 // lineH is the line pitch for the current font size, leading included.
 func (d *doc) lineH() float64 {
-	pt, _ := d.f.GetFontSize()
-	return pt * mmPerPt * 1.22
+	return d.size * mmPerPt * 1.22
 }
 
 // textColor sets the colour of text; fpdf writes it with the text.
@@ -515,18 +530,49 @@ func (d *doc) hasGlyph(r rune) bool {
 func (d *doc) strW(s string) float64 { return d.symToW(d.symW(s)) }
 
 // symW is the width of clean text in the current font in the font's
-// units, which add up: the width of a line is the sum of its words' and
-// spaces'. symToW converts it to millimetres as fpdf's GetStringWidth
-// does, to the same bits.
+// units, which add up: the width of a line is the sum of its characters'.
+// Each character's is fpdf's (GetStringSymbolWidth), asked once a face,
+// so that measuring writes nothing to the page. symToW converts it to
+// millimetres as fpdf's GetStringWidth does, to the same bits. Once the
+// drawing is stopped, text measures nothing, as fpdf's does after an
+// error, so that the section being drawn runs to its end cheaply.
 func (d *doc) symW(s string) int {
+	if d.stopped != nil {
+		return 0
+	}
 	if d.refsOK && hasRef(s) {
 		s = standIn(s)
 	}
-	return d.f.GetStringSymbolWidth(s)
+	widths := d.widths[d.face]
+	w := 0
+	for _, r := range s {
+		if r < widthTable {
+			if c := widths[r]; c > 0 {
+				w += int(c - 1)
+				continue
+			}
+		}
+		w += d.runeW(r)
+	}
+	return w
+}
+
+// widthTable bounds the characters whose widths are kept: Latin,
+// Greek, Cyrillic and the punctuation, arrows and signs of mathematics.
+const widthTable = 0x2300
+
+// runeW is fpdf's width of r in the current font, kept below widthTable.
+func (d *doc) runeW(r rune) int {
+	d.applyFont()
+	w := d.f.GetStringSymbolWidth(string(r))
+	if r < widthTable {
+		d.widths[d.face][r] = int32(w + 1)
+	}
+	return w
 }
 
 func (d *doc) symToW(sym int) float64 {
-	_, size := d.f.GetFontSize()
+	size := d.size / d.f.GetConversionRatio() // as fpdf's SetFont has it
 	return float64(sym) * size / 1000
 }
 
@@ -540,7 +586,16 @@ func (d *doc) text(x, y float64, s string) {
 		d.keep(laterText{x: x, y: y, s: s})
 		return
 	}
+	d.inkFill()
 	d.f.Text(x, y, s)
+}
+
+// inkFill readies fpdf to draw text: the font, and the fill in the
+// text's colour, so that fpdf writes the text without a colour of its
+// own.
+func (d *doc) inkFill() {
+	d.applyFont()
+	d.fillColor(d.ink)
 }
 
 // textIn draws s on one line within the box x, y, w, h, aligned "L", "C"
@@ -551,6 +606,7 @@ func (d *doc) textIn(x, y, w, h float64, s, align string) {
 		d.keep(laterText{x: x, y: y, w: w, h: h, align: align, fromTextIn: true, s: s})
 		return
 	}
+	d.inkFill()
 	d.f.SetXY(x, y)
 	d.f.CellFormat(w, h, s, "", 0, align+"M", false, 0, "")
 }
