@@ -281,17 +281,16 @@ func isRef(r rune) bool { return r >= refFirst && r <= refLast }
 
 // hasRef reports whether s holds a marker (UTF-8 EF B7 90 to EF B7 AF).
 func hasRef(s string) bool {
-	for i := strings.Index(s, "\xef\xb7"); i >= 0 && i+2 < len(s); {
+	for {
+		i := strings.Index(s, "\xef\xb7")
+		if i < 0 || i+2 >= len(s) {
+			return false
+		}
 		if c := s[i+2]; c >= 0x90 && c <= 0xaf {
 			return true
 		}
-		j := strings.Index(s[i+2:], "\xef\xb7")
-		if j < 0 {
-			break
-		}
-		i += 2 + j
+		s = s[i+2:]
 	}
-	return false
 }
 
 // ref is the marker that reads as the page mark gives key.
@@ -458,7 +457,7 @@ func (d *doc) lineH() float64 {
 	return d.size * mmPerPt * 1.22
 }
 
-// textColor sets the colour of text; fpdf writes it with the text.
+// textColor sets the colour of the text drawn next (inkFill).
 func (d *doc) textColor(c rgb) {
 	d.ink = c
 	d.f.SetTextColor(c.r, c.g, c.b)

@@ -222,3 +222,21 @@ func TestFlateStreamsRefuses(t *testing.T) {
 		}
 	}
 }
+
+func TestHasRef(t *testing.T) {
+	for _, c := range []struct {
+		s    string
+		want bool
+	}{
+		{"", false},
+		{"page 3", false},
+		{"\uFDD0", true},
+		{"page \uFDEF.", true},
+		{"\uFDCF \uFDF0 \xef\xb7", false}, // beside the range, and a cut sequence
+		{"\uFDCF then \uFDD5", true},
+	} {
+		if got := hasRef(c.s); got != c.want {
+			t.Errorf("hasRef(%q) = %v, want %v", c.s, got, c.want)
+		}
+	}
+}
