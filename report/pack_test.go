@@ -230,6 +230,7 @@ func TestPackPageRefs(t *testing.T) {
 		{`listed in full on page (\d+)\.`, "Sources cited"},
 		{`the design voyage on page (\d+) shows`, "Design voyage"},
 		{`in the wiring schedule, page (\d+)\.`, "Wiring schedule"},
+		{`is under Cautions, page (\d+)\.`, "Cautions"},
 	}
 	for _, hull := range hulls {
 		t.Run(hull, func(t *testing.T) {
