@@ -120,6 +120,8 @@ type pack struct {
 	// sources numbers the source texts cited on the calculation sheets.
 	sources    map[string]int
 	sourceList []string
+	// provenances keeps each text's provenance (pack.provenance).
+	provenances map[string][2]string
 	// lastPos is the last design position shown on the sheets.
 	lastPos string
 	// The lookups of index.

@@ -58,8 +58,31 @@ func (p *pack) cite(s string) string {
 		n = len(p.sourceList)
 		p.sources[s] = n
 	}
-	_, marks := provenance(s)
+	_, marks := p.provenance(s)
 	return "S" + strconv.Itoa(n) + marks
+}
+
+// provenance is provenance(s), worked out once a text for the pack: the
+// sheets cite the same few sources and paths thousands of times.
+func (p *pack) provenance(s string) (text, marks string) {
+	if v, ok := p.provenances[s]; ok {
+		return v[0], v[1]
+	}
+	text, marks = provenance(s)
+	if p.provenances == nil {
+		p.provenances = map[string][2]string{}
+	}
+	p.provenances[s] = [2]string{text, marks}
+	return text, marks
+}
+
+// marked is marked(s) through p.provenance.
+func (p *pack) marked(s string) string {
+	text, marks := p.provenance(s)
+	if marks == "" {
+		return text
+	}
+	return text + " " + marks
 }
 
 // calcItems groups the figures and findings for the sheets.
@@ -265,7 +288,7 @@ func (p *pack) calcBlock(it calcItem, dry bool) float64 {
 			r.val = []string{fnum(in.Value)}
 			r.unit = d.wrap(in.Unit, colW[2]-2)
 			d.font(mono, calcSize-0.5)
-			r.from = d.wrap(orDash(marked(in.From)), colW[3]-2)
+			r.from = d.wrap(orDash(p.marked(in.From)), colW[3]-2)
 			r.n = max(len(r.name), len(r.unit), len(r.from))
 			inputs = append(inputs, r)
 		}
