@@ -18,8 +18,10 @@ package report
 // measures with the widths fpdf gave it for each character (symW) and
 // gives fpdf the font only to draw. It wraps text whose colour is not the
 // fill colour in q and Q with its colour: doc sets the fill to the text's
-// colour before drawing text. Its page-number aliases are not used at
-// all: see "Page numbers" below.
+// colour before drawing text. It formats every text through fmt: once a
+// text's characters are recorded in the font's subset, show writes the
+// same bytes itself. Its page-number aliases are not used at all: see
+// "Page numbers" below.
 
 import (
 	"bytes"
@@ -99,6 +101,8 @@ type doc struct {
 	face       fontStyle      // the font selected (font), drawn in once fpdf has it (applyFont)
 	size       float64
 	widths     [3][]int32 // fpdf's width of each character below widthTable, by face, plus 1; 0 unknown
+	shown      [3][]bool  // the characters below widthTable fpdf has drawn, by face (show)
+	textBuf    []byte
 	glyphs     *sfnt.Font
 	glyphBuf   sfnt.Buffer
 	haveGlyph  map[rune]bool
@@ -154,8 +158,10 @@ func newDoc(paper string, date time.Time) (*doc, error) {
 	d := &doc{f: f, paper: size, margin: 15, top: 20, bottomGap: 16, glyphs: goFonts()[0],
 		orient: []bool{false}, refPage: map[string]int{}, haveGlyph: map[rune]bool{}}
 	all := make([]int32, 3*widthTable)
+	shown := make([]bool, 3*widthTable)
 	for i := range d.widths {
 		d.widths[i] = all[i*widthTable : (i+1)*widthTable]
+		d.shown[i] = shown[i*widthTable : (i+1)*widthTable]
 	}
 	d.w, d.h = size.Wd, size.Ht
 	f.SetHeaderFunc(func() { d.decorate(d.header) })
@@ -586,7 +592,7 @@ func (d *doc) text(x, y float64, s string) {
 		return
 	}
 	d.inkFill()
-	d.f.Text(x, y, s)
+	d.show(x, y, s)
 }
 
 // inkFill readies fpdf to draw text: the font, and the fill in the
@@ -620,7 +626,51 @@ func (d *doc) textIn(x, y, w, h float64, s, align string) {
 	}
 	size := d.size / d.f.GetConversionRatio()
 	d.inkFill()
-	d.f.Text(x+dx, y+.5*h+.3*size, s)
+	d.show(x+dx, y+.5*h+.3*size, s)
+}
+
+// show writes clean text s with its baseline at x, y, in the font and
+// colour inkFill readied, as fpdf's Text writes it, to the byte: "BT x y
+// Td (s) Tj ET", s in UTF-16BE with \, (, ) and CR escaped. fpdf's Text
+// also records each character drawn in the font, for the font's subset
+// in the PDF, and spends most of its time formatting: so the first text
+// with a character not yet drawn in its face goes through Text, and the
+// rest are written here (fpdf's RawWriteStr).
+func (d *doc) show(x, y float64, s string) {
+	shown := d.shown[d.face]
+	for _, r := range s {
+		if r >= widthTable || !shown[r] {
+			d.f.Text(x, y, s)
+			for _, r := range s {
+				if r < widthTable {
+					shown[r] = true
+				}
+			}
+			return
+		}
+	}
+	k := d.f.GetConversionRatio()
+	_, h := d.f.GetPageSize() // fpdf's, which finish relies on
+	b := append(d.textBuf[:0], "BT "...)
+	b = strconv.AppendFloat(b, x*k, 'f', 2, 64)
+	b = append(b, ' ')
+	b = strconv.AppendFloat(b, (h-y)*k, 'f', 2, 64)
+	b = append(b, " Td ("...)
+	for _, r := range s {
+		for _, c := range [2]byte{byte(r >> 8), byte(r)} {
+			switch c {
+			case '\\', '(', ')':
+				b = append(b, '\\', c)
+			case '\r':
+				b = append(b, '\\', 'r')
+			default:
+				b = append(b, c)
+			}
+		}
+	}
+	b = append(b, ") Tj ET"...)
+	d.textBuf = b
+	d.f.RawWriteStr(string(b))
 }
 
 // fit truncates s with an ellipsis to at most w wide.

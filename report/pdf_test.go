@@ -240,3 +240,50 @@ func TestHasRef(t *testing.T) {
 		}
 	}
 }
+
+// TestShowAsText: a text written by show, after fpdf's Text has drawn its
+// characters in the face, is the same bytes Text writes, escapes in its
+// UTF-16 included (Ĩ, ĩ, Ŝ and č end in the bytes of (, ), \ and CR).
+func TestShowAsText(t *testing.T) {
+	d, err := newDoc("A4", PackEpoch)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d.addPage(false)
+	d.font(regular, 9)
+	d.textColor(colInk)
+	const s = `a (b) \ c Ĩĩ Ŝ č × −1.5`
+	d.text(20, 30, s) // by Text, which records the characters
+	d.text(20, 30, s) // by show
+	d.font(mono, 8)
+	d.text(20, 40, s) // a face in which they are not yet drawn: by Text again
+	b, err := d.bytes()
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := pdf.NewReader(bytes.NewReader(b), int64(len(b)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var content bytes.Buffer
+	if _, err := content.ReadFrom(r.Page(1).V.Key("Contents").Reader()); err != nil {
+		t.Fatal(err)
+	}
+	var shown []string
+	for _, l := range strings.Split(content.String(), "\n") {
+		if strings.HasPrefix(l, "BT ") && strings.Contains(l, " Td (") {
+			shown = append(shown, l)
+		}
+	}
+	if len(shown) != 3 || shown[0] != shown[1] {
+		t.Fatalf("the texts written: %q, want the first two the same", shown)
+	}
+	for _, esc := range []string{`\(`, `\)`, `\\`, `\r`} {
+		if !strings.Contains(shown[1], esc) {
+			t.Errorf("%q lacks the escape %s", shown[1], esc)
+		}
+	}
+	if got := lines(placed(t, b)[0]); !slices.Contains(got, s) {
+		t.Errorf("the page reads %q, want %q", got, s)
+	}
+}
