@@ -21,7 +21,7 @@ import (
 // did not write itself through Inert: the terminal's, Markdown's (md adds
 // its own escaping) and the PDF's.
 func Inert(s string) string {
-	if plainASCII(s) {
+	if plainASCII(s) || !acts(s) {
 		return s
 	}
 	var b strings.Builder
@@ -47,6 +47,21 @@ func Inert(s string) string {
 		i += w
 	}
 	return b.String()
+}
+
+// acts reports whether Inert would escape anything in s.
+func acts(s string) bool {
+	for i, r := range s {
+		if r == utf8.RuneError {
+			if _, w := utf8.DecodeRuneInString(s[i:]); w == 1 {
+				return true
+			}
+		}
+		if r < 0x20 || r == 0x7f || r >= 0x80 && active(r) {
+			return true
+		}
+	}
+	return false
 }
 
 // plainASCII reports whether s is printable ASCII only, the usual case.

@@ -120,6 +120,8 @@ type pack struct {
 	// sources numbers the source texts cited on the calculation sheets.
 	sources    map[string]int
 	sourceList []string
+	// provenances keeps each text's provenance (pack.provenance).
+	provenances map[string][2]string
 	// lastPos is the last design position shown on the sheets.
 	lastPos string
 	// The lookups of index.
@@ -165,7 +167,7 @@ func (p *pack) start(key, title string, landscape bool) {
 	}
 	p.key = key
 	p.layout.note(d.page(), key)
-	d.alias(pageAlias(key), strconv.Itoa(d.page()))
+	d.mark(key)
 	p.heading(title)
 }
 
@@ -209,8 +211,18 @@ func (l *pageLayout) ended(page int, y float64, key string) {
 	l.note(page, key)
 }
 
-// pageAlias is the placeholder that reads as a section's first page.
-func pageAlias(key string) string { return "{p:" + key + "}" }
+// pageRef is a marker that reads as the first page of the section key
+// (doc.ref), in text drawn within doc.withRefs: noteRefs, or the cover's
+// lines.
+func (p *pack) pageRef(key string) string { return p.d.ref(key) }
+
+// pageOf is the first page of the section key, drawn before the caller.
+func (p *pack) pageOf(key string) string {
+	if n, ok := p.d.refPage[key]; ok {
+		return strconv.Itoa(n)
+	}
+	return "?"
+}
 
 // heading draws a section heading at the cursor.
 func (p *pack) heading(title string) {
@@ -241,6 +253,11 @@ func (p *pack) note(size float64, c rgb, s string) {
 	d.textColor(c)
 	d.para(d.left(), d.width(), s)
 	d.textColor(colInk)
+}
+
+// noteRefs is note of text that names pages with pageRef.
+func (p *pack) noteRefs(size float64, c rgb, s string) {
+	p.d.withRefs(func() { p.note(size, c, s) })
 }
 
 func (p *pack) header() {
@@ -283,7 +300,7 @@ func (p *pack) footer() {
 	d.line(d.left(), y, d.right(), y, lineStyle{w: 0.2, c: colRule})
 	d.font(regular, 7.5)
 	d.textColor(colMuted)
-	pg := fmt.Sprintf("page %d of {nb}", d.page())
+	pg := fmt.Sprintf("page %d of %d", d.page(), d.pageCount())
 	pw := d.textW(fmt.Sprintf("page %d of %d", d.page(), 999)) + 2
 	// The revision and hash always show; the name and hull give way.
 	ident := " · rev " + p.shortRev() + " · inputs " + shortHash(id.InputsHash, 12)
@@ -442,7 +459,7 @@ func (p *pack) cover() {
 		}
 		if shown == 5 {
 			d.font(regular, 8.5)
-			d.text(x+2, d.y+3.2, fmt.Sprintf("… and more: see Findings, page %s", pageAlias("findings")))
+			d.withRefs(func() { d.text(x+2, d.y+3.2, "… and more: see Findings, page "+p.pageRef("findings")) })
 			d.y += 4.4
 			break
 		}
@@ -460,7 +477,9 @@ func (p *pack) cover() {
 	if shown > 0 {
 		d.font(regular, 8.5)
 		d.textColor(colMuted)
-		d.text(x+2, d.y+3.2, d.fit("Each is set out with what to change under Findings, page "+pageAlias("findings")+".", w-4))
+		d.withRefs(func() {
+			d.text(x+2, d.y+3.2, d.fit("Each is set out with what to change under Findings, page "+p.pageRef("findings")+".", w-4))
+		})
 		d.textColor(colInk)
 		d.y += 4.4
 	}
@@ -514,7 +533,7 @@ func (p *pack) cover() {
 	d.textColor(colInk)
 	d.y += 4
 
-	// Contents: the page numbers are filled in when the pack is written.
+	// Contents: the page numbers are drawn once known (drawContents).
 	d.font(bold, 10)
 	d.text(x, d.y+3.6, "Contents")
 	d.y += 5.5
@@ -528,7 +547,9 @@ func (p *pack) cover() {
 	d.y = max(d.y+2, d.bottom()-12)
 	d.font(regular, 7.5)
 	d.textColor(colMuted)
-	d.para(x, w, "This pack supports, and does not replace, a qualified marine electrician and the standards, class rules and local regulations that apply to the boat. Read the cautions on page "+pageAlias("cautions")+" before work on the system.")
+	d.withRefs(func() {
+		d.para(x, w, "This pack supports, and does not replace, a qualified marine electrician and the standards, class rules and local regulations that apply to the boat. Read the cautions on page "+p.pageRef("cautions")+" before work on the system.")
+	})
 	d.textColor(colInk)
 	p.drawContents()
 }
@@ -546,8 +567,8 @@ var packSections = []tocEntry{
 	{"cautions", "Cautions"},
 }
 
-// drawContents lists the sections with their first pages, as aliases
-// resolved when the document is written.
+// drawContents lists the sections with their first pages, drawn once
+// they are known (doc.finish).
 func (p *pack) drawContents() {
 	d := p.d
 	y := p.contentsY
@@ -558,7 +579,7 @@ func (p *pack) drawContents() {
 	}
 	for _, s := range sections {
 		d.text(d.left()+2, y+3.3, s.title)
-		d.text(d.left()+100, y+3.3, pageAlias(s.key))
+		d.withRefs(func() { d.text(d.left()+100, y+3.3, p.pageRef(s.key)) })
 		y += 4.4
 	}
 }

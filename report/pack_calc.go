@@ -58,8 +58,31 @@ func (p *pack) cite(s string) string {
 		n = len(p.sourceList)
 		p.sources[s] = n
 	}
-	_, marks := provenance(s)
+	_, marks := p.provenance(s)
 	return "S" + strconv.Itoa(n) + marks
+}
+
+// provenance is provenance(s), worked out once a text for the pack: the
+// sheets cite the same few sources and paths thousands of times.
+func (p *pack) provenance(s string) (text, marks string) {
+	if v, ok := p.provenances[s]; ok {
+		return v[0], v[1]
+	}
+	text, marks = provenance(s)
+	if p.provenances == nil {
+		p.provenances = map[string][2]string{}
+	}
+	p.provenances[s] = [2]string{text, marks}
+	return text, marks
+}
+
+// marked is marked(s) through p.provenance.
+func (p *pack) marked(s string) string {
+	text, marks := p.provenance(s)
+	if marks == "" {
+		return text
+	}
+	return text + " " + marks
 }
 
 // calcItems groups the figures and findings for the sheets.
@@ -158,7 +181,7 @@ func findingIDs(fs []result.Finding) []string {
 func (p *pack) calcSheets() {
 	d := p.d
 	p.start("calc", "Calculation sheets", false)
-	p.note(8, colInk, "Every figure the checks computed: its formula, each input with its value, unit and where it came from (a path in the design, a rulebook entry or another figure), and the result; under it the finding on it, with the limit and where the limit comes from. Sources are cited as [S1], [S2] … and listed in full on page "+pageAlias("sources")+". Values are as computed, to six significant digits.")
+	p.noteRefs(8, colInk, "Every figure the checks computed: its formula, each input with its value, unit and where it came from (a path in the design, a rulebook entry or another figure), and the result; under it the finding on it, with the limit and where the limit comes from. Sources are cited as [S1], [S2] … and listed in full on page "+p.pageRef("sources")+". Values are as computed, to six significant digits.")
 	d.y += 2
 	groups, items := p.calcItems()
 	for gi, g := range groups {
@@ -265,7 +288,7 @@ func (p *pack) calcBlock(it calcItem, dry bool) float64 {
 			r.val = []string{fnum(in.Value)}
 			r.unit = d.wrap(in.Unit, colW[2]-2)
 			d.font(mono, calcSize-0.5)
-			r.from = d.wrap(orDash(marked(in.From)), colW[3]-2)
+			r.from = d.wrap(orDash(p.marked(in.From)), colW[3]-2)
 			r.n = max(len(r.name), len(r.unit), len(r.from))
 			inputs = append(inputs, r)
 		}
@@ -428,8 +451,8 @@ func worst(fs []result.Finding) result.Status {
 func (p *pack) sourceSheet() {
 	d := p.d
 	p.sub("Sources cited", 20)
-	d.alias(pageAlias("sources"), strconv.Itoa(d.page()))
-	p.note(8, colMuted, "A source marked "+markRecalled+" (recalled), "+markCommon+" (common practice) or "+markSecond+" (secondary) is not the standard's own text: what each mark means, and what to do about it, is under Cautions, page "+pageAlias("cautions")+".")
+	d.mark("sources")
+	p.noteRefs(8, colMuted, "A source marked "+markRecalled+" (recalled), "+markCommon+" (common practice) or "+markSecond+" (secondary) is not the standard's own text: what each mark means, and what to do about it, is under Cautions, page "+p.pageRef("cautions")+".")
 	d.y += 1
 	var rows []trow
 	for i, s := range p.sourceList {

@@ -13,7 +13,7 @@ func (p *pack) diagram() {
 		return
 	}
 	sheets := layoutDiagram(p.r, d.width(), d.bottom()-d.y,
-		"Lengths, currents and voltage drops of the runs are in the wiring schedule, page "+pageAlias("wiring")+".")
+		"Lengths, currents and voltage drops of the runs are in the wiring schedule, page "+p.pageOf("wiring")+".")
 	for i, sh := range sheets {
 		if i > 0 {
 			d.addPage(true)

@@ -201,7 +201,7 @@ func (p *pack) solar() {
 		}
 		d.table(cols, rows, tableOpts{size: 7.5})
 		d.y += 1
-		p.note(7.5, colMuted, "Below 100 % (amber) the sun alone does not meet that scenario's daily use in that month; the design voyage on page "+pageAlias("voyage")+" shows what the bank does over a passage.")
+		p.noteRefs(7.5, colMuted, "Below 100 % (amber) the sun alone does not meet that scenario's daily use in that month; the design voyage on page "+p.pageRef("voyage")+" shows what the bank does over a passage.")
 		d.y += 3
 		p.harvestChart()
 	}

@@ -13,7 +13,7 @@ func (p *pack) findings() {
 	d, r := p.d, p.r
 	p.start("findings", "Findings", false)
 	c := r.Count()
-	p.note(9, colInk, fmt.Sprintf("%d findings: %d fail, %d warn, %d pass. Failing and warning findings come first, each with what to change; every finding's arithmetic is on the calculation sheets (page %s).", len(r.Checks), c.Fail, c.Warn, c.Pass, pageAlias("calc")))
+	p.noteRefs(9, colInk, fmt.Sprintf("%d findings: %d fail, %d warn, %d pass. Failing and warning findings come first, each with what to change; every finding's arithmetic is on the calculation sheets (page %s).", len(r.Checks), c.Fail, c.Warn, c.Pass, p.pageRef("calc")))
 	d.y += 2
 
 	var bad []result.Finding

@@ -6,6 +6,8 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -213,10 +215,93 @@ func TestPackExamples(t *testing.T) {
 	}
 }
 
+// TestPackPageRefs follows every page the packs name, drawn once the
+// pages are known (doc.finish), to the page it names: the contents on the
+// cover and the references in the text.
+func TestPackPageRefs(t *testing.T) {
+	t.Parallel()
+	refs := []struct {
+		re, on string
+	}{
+		{`Read the cautions on page (\d+) before`, "Cautions"},
+		{`see Findings, page (\d+)`, "Findings"},
+		{`under Findings, page (\d+)\.`, "Findings"},
+		{`on the calculation sheets \(page (\d+)\)`, "Calculation sheets"},
+		{`listed in full on page (\d+)\.`, "Sources cited"},
+		{`the design voyage on page (\d+) shows`, "Design voyage"},
+		{`in the wiring schedule, page (\d+)\.`, "Wiring schedule"},
+		{`is under Cautions, page (\d+)\.`, "Cautions"},
+	}
+	for _, hull := range hulls {
+		t.Run(hull, func(t *testing.T) {
+			t.Parallel()
+			pages := placed(t, render(t, fixture(t, hull), PackOptions{}))
+			text := make([]string, len(pages))
+			for i, items := range pages {
+				text[i] = strings.Join(lines(items), "\n")
+				for _, r := range text[i] {
+					if isRef(r) {
+						t.Fatalf("page %d holds a page reference's marker %U", i+1, r)
+					}
+				}
+			}
+			// The contents: a section's title, then its first page, which
+			// holds the section's heading (the line of its title alone, or
+			// beside the diagram's sheet number), and no page before does.
+			heading := func(page int, title string) bool {
+				for _, l := range lines(pages[page-1]) {
+					if l == title || strings.HasPrefix(l, title+" sheet ") {
+						return true
+					}
+				}
+				return false
+			}
+			cover := lines(pages[0])
+			for _, s := range packSections {
+				n := 0
+				for _, l := range cover {
+					if rest, ok := strings.CutPrefix(l, s.title+" "); ok {
+						n, _ = strconv.Atoi(rest)
+					}
+				}
+				if n < 2 || n > len(pages) {
+					t.Errorf("the contents give %q no page: %q", s.title, cover)
+					continue
+				}
+				if !heading(n, s.title) {
+					t.Errorf("the contents put %q on page %d, which lacks its heading: %q", s.title, n, lines(pages[n-1]))
+				}
+				for before := 2; before < n; before++ {
+					if heading(before, s.title) {
+						t.Errorf("the contents put %q on page %d, but page %d has its heading", s.title, n, before)
+					}
+				}
+			}
+			all := strings.Join(text, "\n")
+			found := 0
+			for _, ref := range refs {
+				for _, m := range regexp.MustCompile(ref.re).FindAllStringSubmatch(strings.ReplaceAll(all, "\n", " "), -1) {
+					found++
+					n, _ := strconv.Atoi(m[1])
+					if n < 1 || n > len(pages) || !strings.Contains(text[n-1], ref.on) {
+						t.Errorf("%q names page %d, which lacks %q", m[0], n, ref.on)
+					}
+				}
+			}
+			if found < 4 {
+				t.Errorf("%d references to pages found, want at least 4", found)
+			}
+		})
+	}
+}
+
 func TestPackDeterministic(t *testing.T) {
 	t.Parallel()
 	r := fixture(t, "marram")
 	a := render(t, r, PackOptions{})
+	// Another pack between the two: nothing one pack keeps (the fonts'
+	// widths, the page references) reaches the next.
+	render(t, fixture(t, "brackenwell"), PackOptions{PageSize: "Letter"})
 	b := render(t, fixture(t, "marram"), PackOptions{})
 	if !bytes.Equal(a, b) {
 		t.Fatal("two renders of the same result differ")
@@ -447,4 +532,38 @@ func contains(list []string, s string) bool {
 		}
 	}
 	return false
+}
+
+// BenchmarkPack draws the packs of two example hulls, and of the result
+// in the file AMPWRIGHT_BENCH_RESULT names when it is set (a larger hull:
+// `ampwright check --format json` of a hull of cmd/yardgen's yard), to
+// follow the time and allocations a pack costs:
+//
+//	go test ./report -run xxx -bench Pack -benchmem
+func BenchmarkPack(b *testing.B) {
+	files := []string{filepath.Join("testdata", "dunnock.json"), filepath.Join("testdata", "marram.json")}
+	if f := os.Getenv("AMPWRIGHT_BENCH_RESULT"); f != "" {
+		files = append(files, f)
+	}
+	for _, file := range files {
+		b.Run(strings.TrimSuffix(filepath.Base(file), ".json"), func(b *testing.B) {
+			bs, err := os.ReadFile(file)
+			if err != nil {
+				b.Fatal(err)
+			}
+			var r result.Result
+			if err := json.Unmarshal(bs, &r); err != nil {
+				b.Fatal(err)
+			}
+			var out bytes.Buffer
+			b.ReportAllocs()
+			for b.Loop() {
+				out.Reset()
+				if err := Pack(&out, &r, PackOptions{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(out.Len()), "bytes/pack")
+		})
+	}
 }

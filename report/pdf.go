@@ -8,10 +8,26 @@ package report
 // fpdf is archived upstream; keeping it here keeps a replacement small.
 // Lengths are millimetres from the page's top left corner, font sizes
 // points.
+//
+// What fpdf does at great cost is done here instead. It compresses each
+// page with a new zlib writer: its compression is off, and bytes hands
+// the document to flateStreams (pdf_flate.go), which uses one. It writes
+// every change of font, colour and line style even when nothing changes:
+// doc keeps what it last set on the page (gstate) and writes only
+// changes. It writes a font change to the page even to measure text: doc
+// measures with the widths fpdf gave it for each character (symW) and
+// gives fpdf the font only to draw. It wraps text whose colour is not the
+// fill colour in q and Q with its colour: doc sets the fill to the text's
+// colour before drawing text. It formats every text through fmt: once a
+// text's characters are recorded in the font's subset, show writes the
+// same bytes itself. Its page-number aliases are not used at all: see
+// "Page numbers" below.
 
 import (
 	"bytes"
 	"fmt"
+	"slices"
+	"strconv"
 	"strings"
 	"time"
 
@@ -63,15 +79,30 @@ type pt struct{ x, y float64 }
 // doc is a PDF document being drawn, with a flow cursor y for content
 // that runs down the page.
 type doc struct {
-	f          *fpdf.Fpdf
-	paper      fpdf.SizeType
-	margin     float64 // left and right
-	top        float64 // where content starts below the header
-	bottomGap  float64 // space kept for the footer
-	y          float64
-	landscape  bool
-	header     func() // drawn on every page
+	f         *fpdf.Fpdf
+	paper     fpdf.SizeType
+	margin    float64 // left and right
+	top       float64 // where content starts below the header
+	bottomGap float64 // space kept for the footer
+	y         float64
+	landscape bool
+	w, h      float64 // the current page's size
+	// header is drawn on every page as it is started; footer on every
+	// page once the last is drawn, when pageCount is the number of pages.
+	header     func()
 	footer     func()
+	orient     []bool // whether each page is landscape, from page 1 at [1]
+	gs         gstate
+	refKeys    []string       // the references, by marker
+	refPage    map[string]int // the page each reference names, once known
+	refsOK     bool           // the text being drawn may hold markers
+	later      []laterText    // the lines waiting for a page number
+	ink        rgb            // the text colour
+	face       fontStyle      // the font selected (font), drawn in once fpdf has it (applyFont)
+	size       float64
+	widths     [3][]int32 // fpdf's width of each character below widthTable, by face, plus 1; 0 unknown
+	shown      [3][]bool  // the characters below widthTable fpdf has drawn, by face (show)
+	textBuf    []byte
 	glyphs     *sfnt.Font
 	glyphBuf   sfnt.Buffer
 	haveGlyph  map[rune]bool
@@ -116,30 +147,38 @@ func newDoc(paper string, date time.Time) (*doc, error) {
 	f.SetCreationDate(date)
 	f.SetModificationDate(date)
 	f.SetCatalogSort(true)
-	f.SetCompression(true)
+	// bytes compresses the streams (flateStreams).
+	f.SetCompression(false)
 	f.SetAutoPageBreak(false, 0)
 	f.SetMargins(0, 0, 0)
 	f.SetCellMargin(0)
-	f.AliasNbPages("{nb}")
 	f.SetProducer("ampwright", true)
 	f.SetCreator("ampwright pack", true)
 	f.SetLang("en")
-	glyphs, err := sfnt.Parse(goregular.TTF)
-	if err != nil {
-		return nil, err
+	d := &doc{f: f, paper: size, margin: 15, top: 20, bottomGap: 16, glyphs: goFonts()[0],
+		orient: []bool{false}, refPage: map[string]int{}, haveGlyph: map[rune]bool{}}
+	all := make([]int32, 3*widthTable)
+	shown := make([]bool, 3*widthTable)
+	for i := range d.widths {
+		d.widths[i] = all[i*widthTable : (i+1)*widthTable]
+		d.shown[i] = shown[i*widthTable : (i+1)*widthTable]
 	}
-	d := &doc{f: f, paper: size, margin: 15, top: 20, bottomGap: 16, glyphs: glyphs, haveGlyph: map[rune]bool{}}
+	d.w, d.h = size.Wd, size.Ht
 	f.SetHeaderFunc(func() { d.decorate(d.header) })
-	f.SetFooterFunc(func() { d.decorate(d.footer) })
 	return d, f.Error()
 }
 
+// decorate draws a header or footer, and leaves the font and text colour
+// as they were: fpdf, too, restores its own after the header.
 func (d *doc) decorate(fn func()) {
 	if fn == nil || d.inDecorate {
 		return
 	}
 	d.inDecorate = true
+	face, size, ink := d.face, d.size, d.ink
 	fn()
+	d.face, d.size = face, size
+	d.textColor(ink)
 	d.inDecorate = false
 }
 
@@ -177,15 +216,29 @@ func (d *doc) addPage(landscape bool) {
 	if landscape {
 		o = "L"
 	}
+	d.setSize(landscape)
 	d.f.AddPageFormat(o, d.paper)
+	d.orient = append(d.orient, landscape)
+	// fpdf has set the font, colours and line style again, and the header
+	// may have changed them.
+	d.gs = gstate{}
 	d.y = d.top
 }
 
-// page is the current page number.
-func (d *doc) page() int { return d.f.PageNo() }
+// setSize sets the page size for the orientation.
+func (d *doc) setSize(landscape bool) {
+	d.w, d.h = d.paper.Wd, d.paper.Ht
+	if landscape {
+		d.w, d.h = d.h, d.w
+	}
+}
 
-func (d *doc) pageW() float64 { w, _ := d.f.GetPageSize(); return w }
-func (d *doc) pageH() float64 { _, h := d.f.GetPageSize(); return h }
+// page is the current page number, and pageCount the number of pages.
+func (d *doc) page() int      { return d.f.PageNo() }
+func (d *doc) pageCount() int { return d.f.PageCount() }
+
+func (d *doc) pageW() float64 { return d.w }
+func (d *doc) pageH() float64 { return d.h }
 
 // left, right and width are the content area's horizontal bounds.
 func (d *doc) left() float64  { return d.margin }
@@ -205,40 +258,224 @@ func (d *doc) need(h float64) bool {
 	return true
 }
 
-// alias makes every occurrence of name drawn anywhere in the document
-// read value instead, once the document is written.
-func (d *doc) alias(name, value string) { d.f.RegisterAlias(name, value) }
+// Page numbers. A pack names the pages its sections start on ("see
+// Findings, page 2", the contents on its cover) before those pages are
+// drawn, and every page says "page X of N" before N is known. fpdf's
+// aliases would leave placeholders in the pages and replace them as the
+// document is written, copying every page for each alias (27 MB for a
+// pack of 70 pages), and the placeholder would be measured, wrapped and
+// aligned in place of the number. Instead:
+//
+//   - A reference to a page is a marker, one rune (ref), allowed only in
+//     text drawn within withRefs, so that a design's own text never reads
+//     as one. It is measured as a number of three digits (standIn).
+//   - A line holding a marker is not drawn: it is kept (laterText) with
+//     its page, place, font and colour.
+//   - The footer is not drawn as each page ends.
+//   - Once the last page is drawn, finish goes back to each page (fpdf's
+//     SetPage) and draws its footer and its kept lines, the numbers now
+//     known, each in its own measure.
+//
+// The markers are Unicode's noncharacters U+FDD0 to U+FDEF, which are set
+// aside for a program's internal use and which no font has a glyph for.
+const (
+	refFirst = '\uFDD0'
+	refLast  = '\uFDEF'
+)
 
-// bytes closes the document and returns it.
+func isRef(r rune) bool { return r >= refFirst && r <= refLast }
+
+// hasRef reports whether s holds a marker (UTF-8 EF B7 90 to EF B7 AF).
+func hasRef(s string) bool {
+	for {
+		i := strings.Index(s, "\xef\xb7")
+		if i < 0 || i+2 >= len(s) {
+			return false
+		}
+		if c := s[i+2]; c >= 0x90 && c <= 0xaf {
+			return true
+		}
+		s = s[i+2:]
+	}
+}
+
+// ref is the marker that reads as the page mark gives key.
+func (d *doc) ref(key string) string {
+	i := slices.Index(d.refKeys, key)
+	if i < 0 {
+		i = len(d.refKeys)
+		if refFirst+rune(i) > refLast {
+			panic("pdf: too many page references") // a fault of the code, not of a design
+		}
+		d.refKeys = append(d.refKeys, key)
+	}
+	return string(refFirst + rune(i))
+}
+
+// mark makes key's references read as the current page.
+func (d *doc) mark(key string) { d.refPage[key] = d.page() }
+
+// withRefs runs draw, in which text may hold markers from ref.
+func (d *doc) withRefs(draw func()) {
+	d.refsOK = true
+	defer func() { d.refsOK = false }()
+	draw()
+}
+
+// standIn is s with each marker as a number of three digits, for
+// measuring: a page number is drawn no wider unless the pack has a
+// thousand pages.
+func standIn(s string) string {
+	var b strings.Builder
+	for _, r := range s {
+		if isRef(r) {
+			b.WriteString("000")
+		} else {
+			b.WriteRune(r)
+		}
+	}
+	return b.String()
+}
+
+// resolve is s with each marker as the page number it reads as ("?" for
+// a page never marked, which is a fault of the pack's code).
+func (d *doc) resolve(s string) string {
+	var b strings.Builder
+	for _, r := range s {
+		if !isRef(r) {
+			b.WriteRune(r)
+			continue
+		}
+		if n, ok := d.refPage[d.refKeys[r-refFirst]]; ok {
+			b.WriteString(strconv.Itoa(n))
+		} else {
+			b.WriteString("?")
+		}
+	}
+	return b.String()
+}
+
+// laterText is a line of text kept to be drawn by finish: at x, y as text
+// draws it, or in the box x, y, w, h as textIn draws it when align is
+// set.
+type laterText struct {
+	page       int
+	x, y, w, h float64
+	align      string
+	fromTextIn bool
+	s          string
+	face       fontStyle
+	size       float64
+	color      rgb
+}
+
+// keep keeps a line holding a marker for finish.
+func (d *doc) keep(t laterText) {
+	t.page, t.face, t.size, t.color = d.page(), d.face, d.size, d.ink
+	d.later = append(d.later, t)
+}
+
+// finish draws on every page what needed the number of pages: its footer
+// and its kept lines. fpdf draws on a page it has gone back to as if the
+// page were the size of the last one (it turns y upside down with the
+// last page's height), so each page's drawing is moved by the difference;
+// the drawing is wrapped in q and Q, and the font, colours and line style
+// are set again, whatever the page's own drawing left in force.
+func (d *doc) finish() {
+	n := d.pageCount()
+	lastH := d.h
+	later := d.later
+	for pg := 1; pg <= n; pg++ {
+		d.f.SetPage(pg)
+		d.setSize(d.orient[pg])
+		d.landscape = d.orient[pg]
+		d.gs = gstate{}
+		d.f.TransformBegin()
+		if dy := lastH - d.h; dy != 0 {
+			d.f.TransformTranslate(0, dy)
+		}
+		if d.footer != nil {
+			d.decorate(d.footer)
+		}
+		for len(later) > 0 && later[0].page == pg {
+			t := later[0]
+			later = later[1:]
+			d.font(t.face, t.size)
+			d.textColor(t.color)
+			s := d.resolve(t.s)
+			if t.fromTextIn {
+				d.textIn(t.x, t.y, t.w, t.h, s, t.align)
+			} else {
+				d.text(t.x, t.y, s)
+			}
+		}
+		d.f.TransformEnd()
+	}
+	d.textColor(colInk)
+	d.f.SetPage(n)
+}
+
+// bytes finishes the document (finish) and returns it, its streams
+// compressed.
 func (d *doc) bytes() ([]byte, error) {
+	d.finish()
 	var b bytes.Buffer
 	if err := d.f.Output(&b); err != nil {
 		return nil, err
 	}
-	return b.Bytes(), nil
+	return flateStreams(b.Bytes())
 }
 
-// font selects a face and size.
-func (d *doc) font(s fontStyle, size float64) {
-	switch s {
+// gstate is what doc last gave fpdf of the graphics state on the current
+// page, so that a setting repeated is not written to the page again; each
+// part is unknown (its flag false) at the start of a page.
+type gstate struct {
+	fontSet bool
+	face    fontStyle
+	size    float64
+	lineSet bool
+	line    lineStyle
+	fillSet bool
+	fill    rgb
+}
+
+// font selects a face and size for the text measured and drawn next.
+func (d *doc) font(s fontStyle, size float64) { d.face, d.size = s, size }
+
+// applyFont gives fpdf the selected font, to draw in or to measure with.
+func (d *doc) applyFont() {
+	if d.gs.fontSet && d.gs.face == d.face && d.gs.size == d.size {
+		return
+	}
+	d.gs.fontSet, d.gs.face, d.gs.size = true, d.face, d.size
+	switch d.face {
 	case bold:
-		d.f.SetFont("go", "B", size)
+		d.f.SetFont("go", "B", d.size)
 	case mono:
-		d.f.SetFont("gomono", "", size)
+		d.f.SetFont("gomono", "", d.size)
 	default:
-		d.f.SetFont("go", "", size)
+		d.f.SetFont("go", "", d.size)
 	}
 }
 
 // lineH is the line pitch for the current font size, leading included.
 func (d *doc) lineH() float64 {
-	pt, _ := d.f.GetFontSize()
-	return pt * mmPerPt * 1.22
+	return d.size * mmPerPt * 1.22
 }
 
-func (d *doc) textColor(c rgb) { d.f.SetTextColor(c.r, c.g, c.b) }
-func (d *doc) drawColor(c rgb) { d.f.SetDrawColor(c.r, c.g, c.b) }
-func (d *doc) fillColor(c rgb) { d.f.SetFillColor(c.r, c.g, c.b) }
+// textColor sets the colour of the text drawn next (inkFill).
+func (d *doc) textColor(c rgb) {
+	d.ink = c
+	d.f.SetTextColor(c.r, c.g, c.b)
+}
+
+func (d *doc) fillColor(c rgb) {
+	if d.gs.fillSet && d.gs.fill == c {
+		return
+	}
+	d.gs.fillSet, d.gs.fill = true, c
+	d.f.SetFillColor(c.r, c.g, c.b)
+}
 
 // clean makes text safe to draw: it is made inert (Inert: control
 // characters, line breaks and bidirectional controls written as escapes),
@@ -255,7 +492,7 @@ func (d *doc) clean(s string) string {
 	}
 	ok := true
 	for _, r := range s {
-		if r >= 0x80 && !d.hasGlyph(r) {
+		if !d.drawable(r) {
 			ok = false
 			break
 		}
@@ -265,7 +502,7 @@ func (d *doc) clean(s string) string {
 	}
 	var b strings.Builder
 	for _, r := range s {
-		if r >= 0x80 && !d.hasGlyph(r) {
+		if !d.drawable(r) {
 			b.WriteRune('?')
 		} else {
 			b.WriteRune(r)
@@ -277,6 +514,12 @@ func (d *doc) clean(s string) string {
 // maxDrawn is the longest text clean lets through, in runes.
 const maxDrawn = 2000
 
+// drawable reports whether clean lets r through: ASCII, a rune the fonts
+// have a glyph for, and a marker of a page reference within withRefs.
+func (d *doc) drawable(r rune) bool {
+	return r < 0x80 || d.refsOK && isRef(r) || d.hasGlyph(r)
+}
+
 func (d *doc) hasGlyph(r rune) bool {
 	ok, seen := d.haveGlyph[r]
 	if !seen {
@@ -287,33 +530,160 @@ func (d *doc) hasGlyph(r rune) bool {
 	return ok
 }
 
+// strW is the width of clean text in the current font, a marker
+// measured as its stand-in.
+func (d *doc) strW(s string) float64 { return d.symToW(d.symW(s)) }
+
+// symW is the width of clean text in the current font in the font's
+// units, which add up: the width of a line is the sum of its characters'.
+// Each character's is fpdf's (GetStringSymbolWidth), asked once a face,
+// so that measuring writes nothing to the page. symToW converts it to
+// millimetres as fpdf's GetStringWidth does, to the same bits. Once the
+// drawing is stopped, text measures nothing, as fpdf's does after an
+// error, so that the section being drawn runs to its end cheaply.
+func (d *doc) symW(s string) int {
+	if d.stopped != nil {
+		return 0
+	}
+	if d.refsOK && hasRef(s) {
+		s = standIn(s)
+	}
+	widths := d.widths[d.face]
+	w := 0
+	for _, r := range s {
+		if r < widthTable {
+			if c := widths[r]; c > 0 {
+				w += int(c - 1)
+				continue
+			}
+		}
+		w += d.runeW(r)
+	}
+	return w
+}
+
+// widthTable bounds the characters whose widths are kept: Latin,
+// Greek, Cyrillic and the punctuation, arrows and signs of mathematics.
+const widthTable = 0x2300
+
+// runeW is fpdf's width of r in the current font, kept below widthTable.
+func (d *doc) runeW(r rune) int {
+	d.applyFont()
+	w := d.f.GetStringSymbolWidth(string(r))
+	if r < widthTable {
+		d.widths[d.face][r] = int32(w + 1)
+	}
+	return w
+}
+
+func (d *doc) symToW(sym int) float64 {
+	size := d.size / d.f.GetConversionRatio() // as fpdf's SetFont has it
+	return float64(sym) * size / 1000
+}
+
 // textW is the width of s in the current font.
-func (d *doc) textW(s string) float64 { return d.f.GetStringWidth(d.clean(s)) }
+func (d *doc) textW(s string) float64 { return d.strW(d.clean(s)) }
 
 // text draws s with its baseline at y.
 func (d *doc) text(x, y float64, s string) {
-	d.f.Text(x, y, d.clean(s))
+	s = d.clean(s)
+	if d.refsOK && hasRef(s) {
+		d.keep(laterText{x: x, y: y, s: s})
+		return
+	}
+	d.inkFill()
+	d.show(x, y, s)
+}
+
+// inkFill readies fpdf to draw text: the font, and the fill in the
+// text's colour, so that fpdf writes the text without a colour of its
+// own.
+func (d *doc) inkFill() {
+	d.applyFont()
+	d.fillColor(d.ink)
 }
 
 // textIn draws s on one line within the box x, y, w, h, aligned "L", "C"
 // or "R" and centred vertically, truncated with an ellipsis to fit.
 func (d *doc) textIn(x, y, w, h float64, s, align string) {
 	s = d.fit(s, w)
-	d.f.SetXY(x, y)
-	d.f.CellFormat(w, h, s, "", 0, align+"M", false, 0, "")
+	if d.refsOK && hasRef(s) {
+		d.keep(laterText{x: x, y: y, w: w, h: h, align: align, fromTextIn: true, s: s})
+		return
+	}
+	if s == "" {
+		return
+	}
+	// Where fpdf's CellFormat would put it, to the same bits: aligned in
+	// the box with no cell margin, the baseline 0.3 of the font size below
+	// the box's middle. fpdf's Text does less work to write it.
+	dx := 0.0
+	switch align {
+	case "R":
+		dx = w - d.strW(s)
+	case "C":
+		dx = (w - d.strW(s)) / 2
+	}
+	size := d.size / d.f.GetConversionRatio()
+	d.inkFill()
+	d.show(x+dx, y+.5*h+.3*size, s)
+}
+
+// show writes clean text s with its baseline at x, y, in the font and
+// colour inkFill readied, as fpdf's Text writes it, to the byte: "BT x y
+// Td (s) Tj ET", s in UTF-16BE with \, (, ) and CR escaped. fpdf's Text
+// also records each character drawn in the font, for the font's subset
+// in the PDF, and spends most of its time formatting: so the first text
+// with a character not yet drawn in its face goes through Text, and the
+// rest are written here (fpdf's RawWriteStr).
+func (d *doc) show(x, y float64, s string) {
+	shown := d.shown[d.face]
+	for _, r := range s {
+		if r >= widthTable || !shown[r] {
+			d.f.Text(x, y, s)
+			for _, r := range s {
+				if r < widthTable {
+					shown[r] = true
+				}
+			}
+			return
+		}
+	}
+	k := d.f.GetConversionRatio()
+	_, h := d.f.GetPageSize() // fpdf's, which finish relies on
+	b := append(d.textBuf[:0], "BT "...)
+	b = strconv.AppendFloat(b, x*k, 'f', 2, 64)
+	b = append(b, ' ')
+	b = strconv.AppendFloat(b, (h-y)*k, 'f', 2, 64)
+	b = append(b, " Td ("...)
+	for _, r := range s {
+		for _, c := range [2]byte{byte(r >> 8), byte(r)} {
+			switch c {
+			case '\\', '(', ')':
+				b = append(b, '\\', c)
+			case '\r':
+				b = append(b, '\\', 'r')
+			default:
+				b = append(b, c)
+			}
+		}
+	}
+	b = append(b, ") Tj ET"...)
+	d.textBuf = b
+	d.f.RawWriteStr(string(b))
 }
 
 // fit truncates s with an ellipsis to at most w wide.
 func (d *doc) fit(s string, w float64) string {
 	s = d.clean(s)
-	if d.f.GetStringWidth(s) <= w {
+	if d.strW(s) <= w {
 		return s
 	}
 	r := []rune(s)
 	lo, hi := 0, len(r)
 	for lo < hi {
 		mid := (lo + hi + 1) / 2
-		if d.f.GetStringWidth(string(r[:mid])+"…") <= w {
+		if d.strW(string(r[:mid])+"…") <= w {
 			lo = mid
 		} else {
 			hi = mid - 1
@@ -342,31 +712,38 @@ func (d *doc) wrapPara(s string, w float64) []string {
 	if len(words) == 0 {
 		return []string{""}
 	}
-	var lines []string
-	cur := ""
+	// Each word is measured once: the line so far is the sum of its
+	// words and spaces.
+	space := d.symW(" ")
+	var lines, cur []string
+	curW := 0
 	for _, word := range words {
-		try := word
-		if cur != "" {
-			try = cur + " " + word
+		ww := d.symW(word)
+		try := ww
+		if len(cur) > 0 {
+			try = curW + space + ww
 		}
-		if d.f.GetStringWidth(try) <= w {
-			cur = try
+		if d.symToW(try) <= w {
+			cur, curW = append(cur, word), try
 			continue
 		}
-		if cur != "" {
-			lines = append(lines, cur)
-			cur = ""
+		if len(cur) > 0 {
+			lines = append(lines, strings.Join(cur, " "))
+			cur = cur[:0]
 		}
 		// The word alone: split it if it is wider than a line.
-		for d.f.GetStringWidth(word) > w {
+		for d.symToW(ww) > w {
 			head, tail := d.splitWord(word, w)
 			lines = append(lines, head)
 			word = tail
+			ww = d.symW(word)
 		}
-		cur = word
+		if word != "" {
+			cur, curW = append(cur, word), ww
+		}
 	}
-	if cur != "" {
-		lines = append(lines, cur)
+	if len(cur) > 0 {
+		lines = append(lines, strings.Join(cur, " "))
 	}
 	return lines
 }
@@ -376,7 +753,7 @@ func (d *doc) wrapPara(s string, w float64) []string {
 func (d *doc) splitWord(word string, w float64) (string, string) {
 	r := []rune(word)
 	n := 1
-	for n < len(r) && d.f.GetStringWidth(string(r[:n+1])) <= w {
+	for n < len(r) && d.strW(string(r[:n+1])) <= w {
 		n++
 	}
 	for i := n; i > n/2 && i > 0; i-- {
@@ -406,30 +783,41 @@ type lineStyle struct {
 	round bool    // round caps and joins
 }
 
+// stroke sets the line style for the next stroke, writing only what
+// changes. Every stroke is drawn through it, so a dash pattern set here
+// needs no undoing.
 func (d *doc) stroke(s lineStyle) {
-	d.f.SetLineWidth(s.w)
-	d.drawColor(s.c)
-	if s.dash > 0 {
-		d.f.SetDashPattern([]float64{s.dash, s.dash * 0.7}, 0)
-	} else {
-		d.f.SetDashPattern([]float64{}, 0)
+	g := &d.gs
+	set := g.lineSet
+	if !set || g.line.w != s.w {
+		d.f.SetLineWidth(s.w)
 	}
-	if s.round {
-		d.f.SetLineCapStyle("round")
-		d.f.SetLineJoinStyle("round")
-	} else {
-		d.f.SetLineCapStyle("butt")
-		d.f.SetLineJoinStyle("miter")
+	if !set || g.line.c != s.c {
+		d.f.SetDrawColor(s.c.r, s.c.g, s.c.b)
 	}
+	if !set || g.line.dash != s.dash {
+		if s.dash > 0 {
+			d.f.SetDashPattern([]float64{s.dash, s.dash * 0.7}, 0)
+		} else {
+			d.f.SetDashPattern(nil, 0)
+		}
+	}
+	if !set || g.line.round != s.round {
+		if s.round {
+			d.f.SetLineCapStyle("round")
+			d.f.SetLineJoinStyle("round")
+		} else {
+			d.f.SetLineCapStyle("butt")
+			d.f.SetLineJoinStyle("miter")
+		}
+	}
+	g.lineSet, g.line = true, s
 }
-
-func (d *doc) unstroke() { d.f.SetDashPattern([]float64{}, 0) }
 
 // line draws a straight line.
 func (d *doc) line(x1, y1, x2, y2 float64, s lineStyle) {
 	d.stroke(s)
 	d.f.Line(x1, y1, x2, y2)
-	d.unstroke()
 }
 
 // rule draws a horizontal rule across the content area at the cursor.
@@ -448,7 +836,6 @@ func (d *doc) polyline(pts []pt, s lineStyle) {
 		d.f.LineTo(p.x, p.y)
 	}
 	d.f.DrawPath("D")
-	d.unstroke()
 }
 
 // box draws a rectangle, filled with fill when non-nil and outlined when
@@ -467,7 +854,6 @@ func (d *doc) box(x, y, w, h float64, fill *rgb, s lineStyle) {
 		return
 	}
 	d.f.Rect(x, y, w, h, style)
-	d.unstroke()
 }
 
 // roundBox is box with rounded corners of radius r.
@@ -482,7 +868,6 @@ func (d *doc) roundBox(x, y, w, h, r float64, fill *rgb, s lineStyle) {
 		style += "D"
 	}
 	d.f.RoundedRect(x, y, w, h, r, "1234", style)
-	d.unstroke()
 }
 
 // circle draws a circle, filled with fill when non-nil and outlined when
@@ -493,7 +878,6 @@ func (d *doc) circle(x, y, r float64, fill *rgb, s lineStyle) {
 		return
 	}
 	d.f.Circle(x, y, r, style)
-	d.unstroke()
 }
 
 // polygon draws the closed outline through pts, filled with fill when
@@ -508,7 +892,6 @@ func (d *doc) polygon(pts []pt, fill *rgb, s lineStyle) {
 		ps[i] = fpdf.PointType{X: p.x, Y: p.y}
 	}
 	d.f.Polygon(ps, style)
-	d.unstroke()
 }
 
 // paint sets the fill and stroke for a closed shape and returns fpdf's
