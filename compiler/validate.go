@@ -40,16 +40,33 @@ type validator struct {
 func (c *validator) run() {
 	c.quant = map[string]bool{}
 	c.clean = c.root.Validate(cue.Concrete(true)) == nil
+	var s *shape
+	if c.design.Exists() {
+		s = designShape.of(c.design)
+	}
 	if c.clean {
 		c.out = &jsonWriter{}
-		var s *shape
-		if c.design.Exists() {
-			s = designShape.of(c.design)
-		}
 		c.walkClean(c.root, s)
 		return
 	}
-	c.walk(c.root)
+	c.walk(c.root, s)
+}
+
+// sub is the shape of v's field or element, worked out, or nil.
+func (c *validator) sub(s *shape, name string) *shape {
+	if s == nil || !s.known {
+		return nil
+	}
+	if name == "" {
+		if s.kind == shapeList && s.elem != nil {
+			return s.elem.of(c.design)
+		}
+		return nil
+	}
+	if f := s.field(name); f != nil {
+		return f.of(c.design)
+	}
+	return nil
 }
 
 // walkClean is the one pass over a clean design: each quantity and number
@@ -122,7 +139,7 @@ func (c *validator) walkClean(v cue.Value, s *shape) {
 // walk visits v and everything below it in a design CUE finds errors in,
 // reporting each in the design's terms. A subtree CUE finds no error in
 // is left to walkClean, which only checks its quantities and numbers.
-func (c *validator) walk(v cue.Value) {
+func (c *validator) walk(v cue.Value, s *shape) {
 	if a := v.Attribute("q"); a.Err() == nil {
 		c.quantity(v, a)
 		return
@@ -137,7 +154,7 @@ func (c *validator) walk(v cue.Value) {
 	}
 	err := v.Validate(cue.Concrete(true))
 	if err == nil {
-		c.walkClean(v, nil)
+		c.walkClean(v, s)
 		return
 	}
 	n := len(c.errs)
@@ -154,11 +171,11 @@ func (c *validator) walk(v cue.Value) {
 				c.missing(v, sel, it.Value())
 				continue
 			}
-			c.walk(it.Value())
+			c.walk(it.Value(), c.sub(s, selName(sel)))
 		}
 	} else {
 		for _, e := range elements(v) {
-			c.walk(e)
+			c.walk(e, c.sub(s, ""))
 		}
 	}
 	// Errors CUE gives for this value that no field below reported: a
