@@ -191,6 +191,7 @@ func Check(dir string, ch *cache.Cache) Compiled {
 		}
 		return Compiled{Result: r}
 	}
+	a := askGit(g, false)
 	c, ok := lookup(ch, g, WantResult)
 	if !ok {
 		c = build(Side{}, dir, WantResult, ch, g)
@@ -198,9 +199,11 @@ func Check(dir string, ch *cache.Cache) Compiled {
 	files := c.Files
 	c.Files = nil
 	if !c.OK() {
+		a.waitFiles(nil)
 		return c
 	}
-	attach(c.Result, FactsOf(g.Root, files, gatheredReader(g)))
+	f, _ := a.waitFiles(files)
+	attach(c.Result, f)
 	c.Result.Design.Path = dir
 	return c
 }

@@ -8,19 +8,96 @@
 package yard
 
 import (
+	"slices"
+
 	"github.com/ampwright/ampwright/compiler"
 	"github.com/ampwright/ampwright/result"
 )
 
 // Compile compiles the hull in dir on disk and gives its result what git
 // says of its inputs: the commit, and whether one of its input files
-// differs from it.
+// differs from it. git is asked while the design compiles.
 func Compile(dir string) (*result.Result, *compiler.Design, error) {
-	r, d, err := compiler.Compile(dir)
-	if err == nil {
-		attach(r, FactsOf(d.Root, d.Files, d.ReadInput))
-	}
+	r, d, _, err := compileAsking(dir, false)
 	return r, d, err
+}
+
+// CompileWithHistory is Compile that also lists the commits that touched
+// the design's inputs (History), for a pack's cover.
+func CompileWithHistory(dir string) (*result.Result, *compiler.Design, result.History, error) {
+	return compileAsking(dir, true)
+}
+
+func compileAsking(dir string, history bool) (*result.Result, *compiler.Design, result.History, error) {
+	g, err := compiler.Gather(dir)
+	if err != nil {
+		// The compile says why, as it would have.
+		r, d, err := compiler.Compile(dir)
+		return r, d, result.History{}, err
+	}
+	a := askGit(g, history)
+	r, d, err := g.Compile()
+	f, h := a.wait(d)
+	if err != nil {
+		return r, d, result.History{}, err
+	}
+	attach(r, f)
+	return r, d, h, nil
+}
+
+// gitAnswers are git's facts (and, if asked, the history) of a design's
+// gathered files, found while the design compiles.
+type gitAnswers struct {
+	g       *compiler.Gathered
+	paths   []string
+	facts   chan Facts
+	history chan result.History
+}
+
+// askGit asks git about the files gathered in g, in the background: they
+// are the files the design is made of (compiler.Design.Files) and the
+// module's cue.mod/module.cue, which its imports are resolved by and the
+// result cache keys on too; wait checks that.
+func askGit(g *compiler.Gathered, history bool) *gitAnswers {
+	a := &gitAnswers{g: g, paths: g.Paths(), facts: make(chan Facts, 1)}
+	go func() { a.facts <- FactsOf(g.Root, a.paths, gatheredReader(g)) }()
+	if history {
+		a.history = make(chan result.History, 1)
+		go func() { a.history <- History(g.Root, a.paths) }()
+	}
+	return a
+}
+
+// wait returns git's answers for the design compiled from the gathered
+// files (nil if it did not compile), asking again, about the design's own
+// list, should one of its files not be among those gathered.
+func (a *gitAnswers) wait(d *compiler.Design) (Facts, result.History) {
+	return a.waitFiles(designFiles(d))
+}
+
+func designFiles(d *compiler.Design) []string {
+	if d == nil {
+		return nil
+	}
+	return d.Files
+}
+
+// waitFiles is wait for a design whose input files are files (none if it
+// did not compile).
+func (a *gitAnswers) waitFiles(files []string) (Facts, result.History) {
+	f := <-a.facts
+	var h result.History
+	if a.history != nil {
+		h = <-a.history
+	}
+	if files == nil || subset(files, a.paths) {
+		return f, h
+	}
+	f = FactsOf(a.g.Root, files, gatheredReader(a.g))
+	if a.history != nil {
+		h = History(a.g.Root, files)
+	}
+	return f, h
 }
 
 // attach writes git's facts into a result's identity.
@@ -28,4 +105,14 @@ func attach(r *result.Result, f Facts) {
 	r.Design.Revision = f.Revision
 	r.Design.Dirty = f.Dirty
 	r.Design.CommitTime = f.Time
+}
+
+// subset reports whether every path of a is in b; both are sorted.
+func subset(a, b []string) bool {
+	for _, p := range a {
+		if _, ok := slices.BinarySearch(b, p); !ok {
+			return false
+		}
+	}
+	return true
 }

@@ -104,7 +104,7 @@ func runPack(opts *packOptions, dir string) error {
 	}
 
 	stop := watchOne(opts.stderr, dir, 0)
-	r, d, err := yard.Compile(dir)
+	r, _, history, err := yard.CompileWithHistory(dir)
 	stop()
 	if err != nil {
 		if err := printProblems(opts.stderr, dir, brokenResult(dir, problemsOf(err))); err != nil {
@@ -136,7 +136,7 @@ func runPack(opts *packOptions, dir string) error {
 	stop = watchOne(opts.stderr, dir, drawGrace)
 	defer stop()
 	var b bytes.Buffer
-	err = report.Pack(&b, r, report.PackOptions{PageSize: paper, Date: date, MaxPages: opts.maxPages, Deadline: time.Now().Add(lim.Timeout), History: yard.History(d.Root, d.Files)})
+	err = report.Pack(&b, r, report.PackOptions{PageSize: paper, Date: date, MaxPages: opts.maxPages, Deadline: time.Now().Add(lim.Timeout), History: history})
 	var bound *report.PackBoundError
 	switch {
 	case errors.As(err, &bound) && bound.Time:
