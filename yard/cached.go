@@ -199,10 +199,9 @@ func Check(dir string, ch *cache.Cache) Compiled {
 	files := c.Files
 	c.Files = nil
 	if !c.OK() {
-		a.waitFiles(nil)
-		return c
+		return c // git's answers are not needed
 	}
-	f, _ := a.waitFiles(files)
+	f, _ := a.wait(files)
 	attach(c.Result, f)
 	c.Result.Design.Path = dir
 	return c

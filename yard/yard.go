@@ -37,10 +37,10 @@ func compileAsking(dir string, history bool) (*result.Result, *compiler.Design, 
 	}
 	a := askGit(g, history)
 	r, d, err := g.Compile()
-	f, h := a.wait(d)
 	if err != nil {
 		return r, d, result.History{}, err
 	}
+	f, h := a.wait(d.Files)
 	attach(r, f)
 	return r, d, h, nil
 }
@@ -57,7 +57,7 @@ type gitAnswers struct {
 // askGit asks git about the files gathered in g, in the background: they
 // are the files the design is made of (compiler.Design.Files) and the
 // module's cue.mod/module.cue, which its imports are resolved by and the
-// result cache keys on too; wait checks that.
+// result cache keys on too. wait checks that they are.
 func askGit(g *compiler.Gathered, history bool) *gitAnswers {
 	a := &gitAnswers{g: g, paths: g.Paths(), facts: make(chan Facts, 1)}
 	go func() { a.facts <- FactsOf(g.Root, a.paths, gatheredReader(g)) }()
@@ -68,29 +68,16 @@ func askGit(g *compiler.Gathered, history bool) *gitAnswers {
 	return a
 }
 
-// wait returns git's answers for the design compiled from the gathered
-// files (nil if it did not compile), asking again, about the design's own
-// list, should one of its files not be among those gathered.
-func (a *gitAnswers) wait(d *compiler.Design) (Facts, result.History) {
-	return a.waitFiles(designFiles(d))
-}
-
-func designFiles(d *compiler.Design) []string {
-	if d == nil {
-		return nil
-	}
-	return d.Files
-}
-
-// waitFiles is wait for a design whose input files are files (none if it
-// did not compile).
-func (a *gitAnswers) waitFiles(files []string) (Facts, result.History) {
+// wait returns git's answers for a design compiled from the gathered
+// files, whose input files are files, asking again, about those, should
+// one of them not be among the files gathered.
+func (a *gitAnswers) wait(files []string) (Facts, result.History) {
 	f := <-a.facts
 	var h result.History
 	if a.history != nil {
 		h = <-a.history
 	}
-	if files == nil || subset(files, a.paths) {
+	if subset(files, a.paths) {
 		return f, h
 	}
 	f = FactsOf(a.g.Root, files, gatheredReader(a.g))
