@@ -76,9 +76,9 @@ type Identity struct {
 	InputsHash string `json:"inputsHash"`
 	// Revision is the git commit the design was read from, if any.
 	Revision string `json:"revision,omitempty"`
-	// Dirty is true when one of the design's input files (its own, those
-	// it imports, the module's cue.mod/module.cue) differs from Revision or
-	// is not in it; changes elsewhere in the work tree leave it false.
+	// Dirty is true when one of the design's input files (its own and
+	// those it imports) differs from Revision or is not in it; changes
+	// elsewhere in the work tree leave it false.
 	Dirty bool `json:"dirty,omitempty"`
 	// Units is the design's preferred units: metric or imperial.
 	Units string `json:"units,omitempty"`

@@ -35,22 +35,25 @@ type head struct {
 	time                int64
 }
 
-var heads sync.Map // directory → *head (nil outside a work tree)
+var heads sync.Map // directory → func() *head, its answer (nil outside a work tree)
 
+// headOf asks git about dir's HEAD once, however many goroutines ask at
+// once (a pack's facts and history do).
 func headOf(dir string) *head {
-	if h, ok := heads.Load(dir); ok {
-		return h.(*head)
-	}
-	var h *head
-	if out, err := git(dir, nil, "rev-parse", "--show-toplevel", "--show-object-format", "--verify", "--quiet", "HEAD"); err == nil {
-		lines := strings.Fields(string(out))
-		if len(lines) == 3 {
-			h = &head{top: lines[0], format: lines[1], commit: lines[2]}
-			h.time = commitTime(dir, h.commit)
+	ask, _ := heads.LoadOrStore(dir, sync.OnceValue(func() *head {
+		out, err := git(dir, nil, "rev-parse", "--show-toplevel", "--show-object-format", "--verify", "--quiet", "HEAD")
+		if err != nil {
+			return nil
 		}
-	}
-	heads.Store(dir, h)
-	return h
+		lines := strings.Fields(string(out))
+		if len(lines) != 3 {
+			return nil
+		}
+		h := &head{top: lines[0], format: lines[1], commit: lines[2]}
+		h.time = commitTime(dir, h.commit)
+		return h
+	}))
+	return ask.(func() *head)()
 }
 
 // FactsOf asks git about the design whose input files (absolute paths) are

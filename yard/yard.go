@@ -8,6 +8,7 @@
 package yard
 
 import (
+	"path/filepath"
 	"slices"
 
 	"github.com/ampwright/ampwright/compiler"
@@ -54,12 +55,14 @@ type gitAnswers struct {
 	history chan result.History
 }
 
-// askGit asks git about the files gathered in g, in the background: they
-// are the files the design is made of (compiler.Design.Files) and the
-// module's cue.mod/module.cue, which its imports are resolved by and the
-// result cache keys on too. wait checks that they are.
+// askGit asks git about the files gathered in g, in the background: the
+// files the design is made of (compiler.Design.Files), as a rule, once
+// the module's cue.mod/module.cue, which is gathered but is not one of
+// them, is left out. wait checks that they are.
 func askGit(g *compiler.Gathered, history bool) *gitAnswers {
-	a := &gitAnswers{g: g, paths: g.Paths(), facts: make(chan Facts, 1)}
+	module := filepath.Join(g.Root, "cue.mod", "module.cue")
+	paths := slices.DeleteFunc(g.Paths(), func(p string) bool { return p == module })
+	a := &gitAnswers{g: g, paths: paths, facts: make(chan Facts, 1)}
 	go func() { a.facts <- FactsOf(g.Root, a.paths, gatheredReader(g)) }()
 	if history {
 		a.history = make(chan result.History, 1)
@@ -70,14 +73,14 @@ func askGit(g *compiler.Gathered, history bool) *gitAnswers {
 
 // wait returns git's answers for a design compiled from the gathered
 // files, whose input files are files, asking again, about those, should
-// one of them not be among the files gathered.
+// they not be the files asked about.
 func (a *gitAnswers) wait(files []string) (Facts, result.History) {
 	f := <-a.facts
 	var h result.History
 	if a.history != nil {
 		h = <-a.history
 	}
-	if subset(files, a.paths) {
+	if slices.Equal(files, a.paths) {
 		return f, h
 	}
 	f = FactsOf(a.g.Root, files, gatheredReader(a.g))
@@ -92,14 +95,4 @@ func attach(r *result.Result, f Facts) {
 	r.Design.Revision = f.Revision
 	r.Design.Dirty = f.Dirty
 	r.Design.CommitTime = f.Time
-}
-
-// subset reports whether every path of a is in b; both are sorted.
-func subset(a, b []string) bool {
-	for _, p := range a {
-		if _, ok := slices.BinarySearch(b, p); !ok {
-			return false
-		}
-	}
-	return true
 }
