@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/ampwright/ampwright/energy"
 	"github.com/ampwright/ampwright/model"
 	"github.com/ampwright/ampwright/result"
 	"github.com/ampwright/ampwright/schema"
@@ -88,7 +89,7 @@ func starts(in *Input) map[*model.Run][]start {
 		case l.Inverter != nil && l.Spec.SurgePower != nil:
 			q := float64(max(l.Spec.Quantity, 1))
 			p := l.Inverter.Spec.Part
-			extra = (l.Spec.SurgePower.Watts() - acWatts(l)/q) / p.Efficiency / l.Inverter.Node.Volts
+			extra = (l.Spec.SurgePower.Watts() - energy.ACPower(l)/q) / p.Efficiency / l.Inverter.Node.Volts
 			r = l.Inverter.Node.In
 		}
 		if r == nil || extra <= 0 {
@@ -112,17 +113,6 @@ func converterAt(sys *model.System, n *model.Node) *model.Converter {
 		}
 	}
 	return nil
-}
-
-func acWatts(l *model.Load) float64 {
-	q := float64(max(l.Spec.Quantity, 1))
-	switch {
-	case l.Spec.Power != nil:
-		return l.Spec.Power.Watts() * q
-	case l.Spec.Current != nil:
-		return l.Spec.Current.Amps() * l.Volts * q
-	}
-	return 0
 }
 
 // ProtectionSurge checks motor starts and inrush against the devices that

@@ -354,27 +354,9 @@ func SmallestPassingSize(in *Input, r *model.Run) (unit.Size, measured, bool) {
 }
 
 // standardSizes lists the standard sizes of a conductor's family, thin to
-// thick: every AWG size, and the metric sizes the rulebook's resistance
-// table gives, so that a suggestion never rests on a nominal-area guess.
+// thick (model.StandardSizes).
 func standardSizes(in *Input, like unit.Size) []unit.Size {
-	var out []unit.Size
-	if _, ok := like.AWG(); ok {
-		for _, g := range unit.StandardAWG() {
-			if q, err := unit.ParseAs(unit.AWGName(g), unit.DimSize); err == nil {
-				out = append(out, unit.Size{Quantity: q})
-			}
-		}
-		return out
-	}
-	for _, a := range unit.StandardMetric() {
-		if _, _, ok := model.LookupSize(in.Rules.Resistance.Metric.Plain, a); !ok {
-			continue
-		}
-		if q, err := unit.ParseAs(fmt.Sprintf("%g mm²", a), unit.DimSize); err == nil {
-			out = append(out, unit.Size{Quantity: q})
-		}
-	}
-	return out
+	return model.StandardSizes(in.Rules.Resistance.Metric.Plain, like)
 }
 
 // changeFor says what to change on a run that fails a wiring check: the

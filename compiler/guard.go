@@ -235,13 +235,9 @@ func (g *guardFS) ReadFile(name string) ([]byte, error) {
 // ReadDir lists a directory of the module. Entries describe the entry
 // itself: a link is listed as a link, and checked when it is opened.
 func (g *guardFS) ReadDir(name string) ([]fs.DirEntry, error) {
-	name, err := g.check("readdir", name)
+	name, f, err := g.openDir(name)
 	if err != nil {
 		return nil, err
-	}
-	f, err := g.root.Open(name)
-	if err != nil {
-		return nil, g.refuse(name, err)
 	}
 	defer f.Close()
 	entries, err := f.ReadDir(-1)
@@ -255,13 +251,9 @@ func (g *guardFS) ReadDir(name string) ([]fs.DirEntry, error) {
 // files, as ReadDir describes them, without describing every other entry
 // (the directory of the hulls holds one for each).
 func (g *guardFS) cueEntries(name string) ([]fs.DirEntry, error) {
-	name, err := g.check("readdir", name)
+	name, f, err := g.openDir(name)
 	if err != nil {
 		return nil, err
-	}
-	f, err := g.root.Open(name)
-	if err != nil {
-		return nil, g.refuse(name, err)
 	}
 	defer f.Close()
 	names, err := f.Readdirnames(-1)
@@ -280,6 +272,20 @@ func (g *guardFS) cueEntries(name string) ([]fs.DirEntry, error) {
 		out = append(out, fs.FileInfoToDirEntry(fi))
 	}
 	return sortEntries(out), nil
+}
+
+// openDir checks and opens a directory of the module to list it,
+// returning its checked name.
+func (g *guardFS) openDir(name string) (string, *os.File, error) {
+	name, err := g.check("readdir", name)
+	if err != nil {
+		return "", nil, err
+	}
+	f, err := g.root.Open(name)
+	if err != nil {
+		return "", nil, g.refuse(name, err)
+	}
+	return name, f, nil
 }
 
 // Stat describes a path, following links inside the module.

@@ -73,7 +73,7 @@ func OnAt(windows []schema.Window, h int) bool {
 // nominal voltage.
 func BankCurrent(sys *model.System, l *model.Load) float64 {
 	if inv := l.Inverter; inv != nil {
-		p := acPower(l)
+		p := ACPower(l)
 		return p / inv.Spec.Part.Efficiency / inv.Node.Volts
 	}
 	i := l.Current
@@ -91,7 +91,7 @@ func BankSurge(sys *model.System, l *model.Load) float64 {
 			return 0
 		}
 		q := float64(max(l.Spec.Quantity, 1))
-		extra := l.Spec.SurgePower.Watts()*q - acPower(l)
+		extra := l.Spec.SurgePower.Watts()*q - ACPower(l)
 		return max(0, extra) / inv.Spec.Part.Efficiency / inv.Node.Volts
 	}
 	if l.Spec.Surge == nil {
@@ -104,8 +104,8 @@ func BankSurge(sys *model.System, l *model.Load) float64 {
 	return extra
 }
 
-// acPower is an AC load's power, all of them fitted, W.
-func acPower(l *model.Load) float64 {
+// ACPower is an AC load's running power, all of them fitted, W.
+func ACPower(l *model.Load) float64 {
 	q := float64(max(l.Spec.Quantity, 1))
 	switch {
 	case l.Spec.Power != nil:
@@ -117,9 +117,3 @@ func acPower(l *model.Load) float64 {
 	}
 	return 0
 }
-
-// ACPower is an AC load's running power, all of them fitted, W.
-func ACPower(l *model.Load) float64 { return acPower(l) }
-
-// ConverterOf is the converter a DC load hangs beyond, or nil.
-func ConverterOf(sys *model.System, l *model.Load) *model.Converter { return converterOf(sys, l) }

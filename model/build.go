@@ -216,10 +216,7 @@ func (b *builder) orient() {
 					continue
 				}
 				used[r] = true
-				wn := r.Spec.To
-				if wn == u.Name {
-					wn = r.Spec.From
-				}
+				wn := r.otherEnd(u.Name)
 				w := s.Nodes[wn]
 				r.Up, r.Down, r.UpNode, r.DownNode = u.Name, wn, u, w
 				r.Bank, r.Volts = bk, b.outVolts(u)

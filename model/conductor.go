@@ -90,18 +90,22 @@ func LookupSize(table map[string]float64, area float64) (float64, string, bool) 
 // tables: the wiring checks look sizes up many times a design.
 var keyAreas sync.Map // string → float64, or false when not a size
 
-func keyArea(k string) (float64, bool) {
-	if v, ok := keyAreas.Load(k); ok {
-		a, isSize := v.(float64)
-		return a, isSize
+func keyArea(k string) (float64, bool) { return keyValue(&keyAreas, k, unit.DimSize, 1e6) }
+
+// keyValue is a rulebook table's key k as a quantity of dimension dim,
+// its SI value × scale, cached in m; false when k is not one.
+func keyValue(m *sync.Map, k string, dim unit.Dim, scale float64) (float64, bool) {
+	if v, ok := m.Load(k); ok {
+		x, isQ := v.(float64)
+		return x, isQ
 	}
-	q, err := unit.ParseAs(k, unit.DimSize)
+	q, err := unit.ParseAs(k, dim)
 	if err != nil {
-		keyAreas.Store(k, false)
+		m.Store(k, false)
 		return 0, false
 	}
-	keyAreas.Store(k, q.Value*1e6)
-	return q.Value * 1e6, true
+	m.Store(k, q.Value*scale)
+	return q.Value * scale, true
 }
 
 // Ampacity is a conductor's allowable current and how it was found.
@@ -219,17 +223,7 @@ func RatingAtMost[V any](m map[string]V, t float64) string {
 var keyTemperatures sync.Map // string → float64, or false
 
 func keyTemperature(k string) (float64, bool) {
-	if v, ok := keyTemperatures.Load(k); ok {
-		t, isTemp := v.(float64)
-		return t, isTemp
-	}
-	q, err := unit.ParseAs(k, unit.DimTemperature)
-	if err != nil {
-		keyTemperatures.Store(k, false)
-		return 0, false
-	}
-	keyTemperatures.Store(k, q.Value)
-	return q.Value, true
+	return keyValue(&keyTemperatures, k, unit.DimTemperature, 1)
 }
 
 // DropLimit is the rulebook's voltage-drop limit for a class, percent.
@@ -283,4 +277,29 @@ func (s *System) RunDrop(r *Run, size unit.Size) Drop {
 		d.Pct = d.Volts / r.DropVoltage * 100
 	}
 	return d
+}
+
+// StandardSizes lists the standard sizes of like's family, thin to thick:
+// every AWG gauge, or the metric sizes the rulebook's resistance table for
+// plain metric conductors (metric) gives, so that a suggested size never
+// rests on a nominal-area guess.
+func StandardSizes(metric map[string]float64, like unit.Size) []unit.Size {
+	var out []unit.Size
+	if _, ok := like.AWG(); ok {
+		for _, g := range unit.StandardAWG() {
+			if q, err := unit.ParseAs(unit.AWGName(g), unit.DimSize); err == nil {
+				out = append(out, unit.Size{Quantity: q})
+			}
+		}
+		return out
+	}
+	for _, a := range unit.StandardMetric() {
+		if _, _, ok := LookupSize(metric, a); !ok {
+			continue
+		}
+		if q, err := unit.ParseAs(fmt.Sprintf("%g mm²", a), unit.DimSize); err == nil {
+			out = append(out, unit.Size{Quantity: q})
+		}
+	}
+	return out
 }

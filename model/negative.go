@@ -145,10 +145,7 @@ func (b *builder) orientNegative(adj map[string][]*Run) {
 					continue
 				}
 				used[r] = true
-				wn := r.Spec.To
-				if wn == u.Name {
-					wn = r.Spec.From
-				}
+				wn := r.otherEnd(u.Name)
 				w := s.Negatives[wn]
 				if reached[w] {
 					b.fail(r.Path, "the negative side forms a loop: this conductor joins %q and %q, and %q is already reached from a bank's negative post", u.Name, wn, wn)

@@ -152,6 +152,14 @@ type Run struct {
 	Ret ReturnPath
 }
 
+// otherEnd is the end of the run that is not the node named name.
+func (r *Run) otherEnd(name string) string {
+	if r.Spec.To == name {
+		return r.Spec.From
+	}
+	return r.Spec.To
+}
+
 // ReturnPath is how a positive run's current returns.
 type ReturnPath struct {
 	// Own is true when the run has a return conductor of its own: every

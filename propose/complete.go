@@ -159,29 +159,8 @@ func (c *completer) standardSizes(like unit.Size) []unit.Size {
 	if out, ok := c.std[fam]; ok {
 		return out
 	}
-	out := c.listSizes(like)
+	out := model.StandardSizes(c.rules.Resistance.Metric.Plain, like)
 	c.std[fam] = out
-	return out
-}
-
-func (c *completer) listSizes(like unit.Size) []unit.Size {
-	var out []unit.Size
-	if _, ok := like.AWG(); ok {
-		for _, g := range unit.StandardAWG() {
-			if q, err := unit.ParseAs(unit.AWGName(g), unit.DimSize); err == nil {
-				out = append(out, unit.Size{Quantity: q})
-			}
-		}
-		return out
-	}
-	for _, a := range unit.StandardMetric() {
-		if _, _, ok := model.LookupSize(c.rules.Resistance.Metric.Plain, a); !ok {
-			continue
-		}
-		if q, err := unit.ParseAs(fmt.Sprintf("%g mm²", a), unit.DimSize); err == nil {
-			out = append(out, unit.Size{Quantity: q})
-		}
-	}
 	return out
 }
 

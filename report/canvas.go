@@ -27,6 +27,18 @@ type canvas interface {
 	label(x, y float64, spans []span, align string)
 }
 
+// alignX is where a label w wide that is aligned at x as label says
+// starts.
+func alignX(x, w float64, align string) float64 {
+	switch align {
+	case "C":
+		return x - w/2
+	case "R":
+		return x - w
+	}
+	return x
+}
+
 // span is a piece of text in one face, size and colour.
 type span struct {
 	s    string

@@ -186,12 +186,7 @@ func DiagramPDF(w io.Writer, r *result.Result, opts DiagramOptions) error {
 	}
 	for _, sh := range sheets {
 		d.addPage(true)
-		d.font(bold, 14)
-		d.textColor(colInk)
-		d.text(d.left(), d.y+5, d.fit(title, d.width()))
-		d.y += 7.5
-		d.rule(0.4, colInk)
-		d.y += 3
+		d.heading(title)
 		drawSheet(d, sh, d.left(), d.y)
 	}
 	b, err := d.bytes()

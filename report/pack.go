@@ -225,15 +225,7 @@ func (p *pack) pageOf(key string) string {
 }
 
 // heading draws a section heading at the cursor.
-func (p *pack) heading(title string) {
-	d := p.d
-	d.font(bold, 14)
-	d.textColor(colInk)
-	d.text(d.left(), d.y+5, d.fit(title, d.width()))
-	d.y += 7.5
-	d.rule(0.4, colInk)
-	d.y += 3
-}
+func (p *pack) heading(title string) { p.d.heading(title) }
 
 // sub draws a subheading, keeping room for what follows it.
 func (p *pack) sub(title string, keep float64) {

@@ -841,15 +841,7 @@ func (d *doc) polyline(pts []pt, s lineStyle) {
 // box draws a rectangle, filled with fill when non-nil and outlined when
 // s.w > 0.
 func (d *doc) box(x, y, w, h float64, fill *rgb, s lineStyle) {
-	style := ""
-	if fill != nil {
-		d.fillColor(*fill)
-		style += "F"
-	}
-	if s.w > 0 {
-		d.stroke(s)
-		style += "D"
-	}
+	style := d.paint(fill, s)
 	if style == "" {
 		return
 	}
@@ -858,16 +850,7 @@ func (d *doc) box(x, y, w, h float64, fill *rgb, s lineStyle) {
 
 // roundBox is box with rounded corners of radius r.
 func (d *doc) roundBox(x, y, w, h, r float64, fill *rgb, s lineStyle) {
-	style := ""
-	if fill != nil {
-		d.fillColor(*fill)
-		style += "F"
-	}
-	if s.w > 0 {
-		d.stroke(s)
-		style += "D"
-	}
-	d.f.RoundedRect(x, y, w, h, r, "1234", style)
+	d.f.RoundedRect(x, y, w, h, r, "1234", d.paint(fill, s))
 }
 
 // circle draws a circle, filled with fill when non-nil and outlined when
@@ -909,6 +892,16 @@ func (d *doc) paint(fill *rgb, s lineStyle) string {
 	return style
 }
 
+// heading draws a section heading at the cursor, ruled off below.
+func (d *doc) heading(title string) {
+	d.font(bold, 14)
+	d.textColor(colInk)
+	d.text(d.left(), d.y+5, d.fit(title, d.width()))
+	d.y += 7.5
+	d.rule(0.4, colInk)
+	d.y += 3
+}
+
 // label draws spans on one line with its baseline at y, from x ("L"),
 // centred on x ("C") or ending at x ("R").
 func (d *doc) label(x, y float64, spans []span, align string) {
@@ -917,12 +910,7 @@ func (d *doc) label(x, y float64, spans []span, align string) {
 		d.font(sp.face, sp.size)
 		w += d.textW(sp.s)
 	}
-	switch align {
-	case "C":
-		x -= w / 2
-	case "R":
-		x -= w
-	}
+	x = alignX(x, w, align)
 	for _, sp := range spans {
 		d.font(sp.face, sp.size)
 		d.textColor(sp.c)

@@ -100,13 +100,7 @@ func (s *svgDoc) label(x, y float64, spans []span, align string) {
 	if len(spans) == 0 {
 		return
 	}
-	w := s.m.spansWidth(spans)
-	switch align {
-	case "C":
-		x -= w / 2
-	case "R":
-		x -= w
-	}
+	x = alignX(x, s.m.spansWidth(spans), align)
 	// One text element a span, each at its own x: viewers differ in how
 	// they collapse a space at the edge of a tspan, and a span's leading
 	// space is an offset here instead.
